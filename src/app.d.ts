@@ -1,0 +1,19 @@
+import type { SessionUser } from '$lib/server/auth/types';
+
+declare global {
+	namespace App {
+		interface Error {
+			message: string;
+			errorId?: string;
+		}
+		interface Locals {
+			user: SessionUser | null;
+			session: { id: string; expiresAt: Date; fresh: boolean } | null;
+		}
+		// interface PageData {}
+		// interface PageState {}
+		// interface Platform {}
+	}
+}
+
+export {};

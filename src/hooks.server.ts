@@ -1,0 +1,102 @@
+import { randomUUID } from 'node:crypto';
+import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
+import { sequence } from '@sveltejs/kit/hooks';
+import { lucia } from '$lib/server/auth/lucia';
+import { isDatabaseDownError, sequelize } from '$lib/server/db';
+
+export const init: ServerInit = async () => {
+	try {
+		await sequelize.authenticate();
+	} catch (err) {
+		// The app still starts; /api/health reports the database as down until it answers.
+		console.error('[traywise] database not reachable at start:', (err as Error).message);
+	}
+};
+
+/** Reads the session cookie once into typed locals. */
+const session: Handle = async ({ event, resolve }) => {
+	event.locals.user = null;
+	event.locals.session = null;
+	const sessionId = event.cookies.get(lucia.sessionCookieName);
+	if (!sessionId) return resolve(event);
+
+	const { session, user } = await lucia.validateSession(sessionId);
+	if (session?.fresh) {
+		const cookie = lucia.createSessionCookie(session.id);
+		event.cookies.set(cookie.name, cookie.value, { path: '/', ...cookie.attributes });
+	}
+	if (!session) {
+		const cookie = lucia.createBlankSessionCookie();
+		event.cookies.set(cookie.name, cookie.value, { path: '/', ...cookie.attributes });
+	}
+	event.locals.session = session ? { id: session.id, expiresAt: session.expiresAt, fresh: session.fresh } : null;
+	event.locals.user = user
+		? {
+				id: user.id,
+				email: user.email,
+				name: user.name,
+				role: user.role,
+				teamId: user.teamId,
+				unitSystem: user.unitSystem
+			}
+		: null;
+	return resolve(event);
+};
+
+const DB_DOWN_MESSAGE = 'The database is not answering right now. Nothing was changed; try again in a moment.';
+
+/** A stopped database answers 503 (page or JSON), never a 500 or a hung request. */
+const databaseDown: Handle = async ({ event, resolve }) => {
+	try {
+		const response = await resolve(event);
+		if (response.status === 500 && (event.locals as { dbDown?: boolean }).dbDown) {
+			const headers = new Headers(response.headers);
+			headers.set('retry-after', '5');
+			return new Response(response.body, { status: 503, headers });
+		}
+		return response;
+	} catch (err) {
+		if (!isDatabaseDownError(err)) throw err;
+		const wantsJson =
+			event.url.pathname.startsWith('/api/') ||
+			(event.request.headers.get('accept') ?? '').includes('application/json');
+		return wantsJson
+			? new Response(JSON.stringify({ message: DB_DOWN_MESSAGE }), {
+					status: 503,
+					headers: { 'content-type': 'application/json', 'retry-after': '5' }
+				})
+			: new Response(
+					`<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Traywise — try again shortly</title></head><body style="font-family:sans-serif;padding:2rem"><h1>Traywise is catching its breath</h1><p>${DB_DOWN_MESSAGE}</p></body></html>`,
+					{ status: 503, headers: { 'content-type': 'text/html; charset=utf-8', 'retry-after': '5' } }
+				);
+	}
+};
+
+const securityHeaders: Handle = async ({ event, resolve }) => {
+	let response = await resolve(event);
+	try {
+		response.headers.set('x-content-type-options', 'nosniff');
+	} catch {
+		// immutable headers (a proxied fetch response): copy them once
+		response = new Response(response.body, response);
+		response.headers.set('x-content-type-options', 'nosniff');
+	}
+	response.headers.set('x-frame-options', 'DENY');
+	response.headers.set('referrer-policy', 'strict-origin-when-cross-origin');
+	response.headers.set('permissions-policy', 'camera=(self), microphone=(), geolocation=()');
+	response.headers.delete('x-powered-by');
+	response.headers.delete('server');
+	return response;
+};
+
+export const handle = sequence(securityHeaders, databaseDown, session);
+
+export const handleError: HandleServerError = ({ error, event, status }) => {
+	const errorId = randomUUID();
+	if (isDatabaseDownError(error)) {
+		(event.locals as { dbDown?: boolean }).dbDown = true;
+		return { message: DB_DOWN_MESSAGE, errorId };
+	}
+	if (status !== 404) console.error(`[traywise] ${errorId}`, event.url.pathname, error);
+	return { message: status === 404 ? 'Not found.' : 'Something went wrong on our side.', errorId };
+};

@@ -1,0 +1,21 @@
+import { z } from 'zod';
+
+export const loginSchema = z.object({
+	email: z.string().trim().min(1, 'Enter your e-mail address.').max(254).email('Enter a valid e-mail address.'),
+	password: z.string().min(1, 'Enter your password.').max(256)
+});
+
+export const userCreateSchema = z.object({
+	name: z.string().trim().min(1, 'Enter a name.').max(120),
+	email: z.string().trim().toLowerCase().max(254).email('Enter a valid e-mail address.'),
+	role: z.enum(['rep', 'manager', 'admin']),
+	teamId: z.string().uuid().nullable().default(null),
+	password: z.string().min(12, 'Use at least 12 characters.').max(256)
+});
+
+export const userUpdateSchema = z.object({
+	id: z.string().uuid(),
+	role: z.enum(['rep', 'manager', 'admin']),
+	teamId: z.string().uuid().nullable().default(null),
+	active: z.boolean()
+});

@@ -1,0 +1,119 @@
+import { existsSync, readFileSync } from 'node:fs';
+import path from 'node:path';
+import { Battery, Equipment, Team, TruckModel, TruckModelBattery, User } from './models';
+import { hashPassword } from '../auth/password';
+import type { Role, UnitSystem } from './models';
+
+const SEED_DIR = path.resolve(process.env.SEED_DIR ?? 'seed-data');
+
+function readJson<T>(name: string): T | null {
+	const file = path.join(SEED_DIR, name);
+	return existsSync(file) ? (JSON.parse(readFileSync(file, 'utf8')) as T) : null;
+}
+
+interface PeopleFile {
+	teams: string[];
+	users: { email: string; name: string; role: Role; team: string | null; unitSystem: UnitSystem }[];
+	password: string;
+}
+
+interface CatalogueFile {
+	trucks: {
+		code: string;
+		name: string;
+		family: string;
+		capacityKg: number;
+		priceCents?: number;
+		costCents?: number;
+		compatibleBatteries: string[];
+		spec: Record<string, unknown>;
+	}[];
+	batteries: { code: string; name: string; priceCents?: number; costCents?: number; spec: Record<string, unknown> }[];
+	equipment: {
+		sku: string;
+		kind: string;
+		name: string;
+		priceCents?: number;
+		costCents?: number;
+		spec?: Record<string, unknown>;
+	}[];
+}
+
+/** Adds whatever demo records are missing; returns how many were added. */
+export async function seedDemo(): Promise<number> {
+	let added = 0;
+	const people = readJson<PeopleFile>('people.json');
+	if (people) {
+		const teamIds = new Map<string, string>();
+		for (const name of people.teams) {
+			const [team, created] = await Team.findOrCreate({ where: { name }, defaults: { name } });
+			teamIds.set(name, team.id);
+			if (created) added++;
+		}
+		const passwordHash = await hashPassword(people.password);
+		for (const u of people.users) {
+			const [, created] = await User.findOrCreate({
+				where: { email: u.email },
+				defaults: {
+					email: u.email,
+					name: u.name,
+					role: u.role,
+					teamId: u.team ? (teamIds.get(u.team) ?? null) : null,
+					unitSystem: u.unitSystem,
+					passwordHash
+				}
+			});
+			if (created) added++;
+		}
+	}
+
+	const catalogue = readJson<CatalogueFile>('catalogue.json');
+	if (catalogue) {
+		const batteryIds = new Map<string, string>();
+		for (const b of catalogue.batteries) {
+			const [row, created] = await Battery.findOrCreate({
+				where: { code: b.code },
+				defaults: { code: b.code, name: b.name, spec: b.spec, priceCents: b.priceCents ?? 0, costCents: b.costCents ?? 0 }
+			});
+			batteryIds.set(b.code, row.id);
+			if (created) added++;
+		}
+		for (const t of catalogue.trucks) {
+			const [row, created] = await TruckModel.findOrCreate({
+				where: { code: t.code },
+				defaults: {
+					code: t.code,
+					name: t.name,
+					family: t.family,
+					capacityKg: t.capacityKg,
+					spec: t.spec,
+					priceCents: t.priceCents ?? 0,
+					costCents: t.costCents ?? 0
+				}
+			});
+			if (created) {
+				added++;
+				const links = t.compatibleBatteries
+					.map((code) => batteryIds.get(code))
+					.filter((id): id is string => !!id)
+					.map((batteryId) => ({ truckModelId: row.id, batteryId }));
+				await TruckModelBattery.bulkCreate(links, { ignoreDuplicates: true });
+			}
+		}
+		for (const e of catalogue.equipment) {
+			const [, created] = await Equipment.findOrCreate({
+				where: { sku: e.sku },
+				defaults: {
+					sku: e.sku,
+					kind: e.kind,
+					name: e.name,
+					spec: e.spec ?? {},
+					priceCents: e.priceCents ?? 0,
+					costCents: e.costCents ?? 0
+				}
+			});
+			if (created) added++;
+		}
+	}
+	return added;
+}

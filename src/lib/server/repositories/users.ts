@@ -1,0 +1,103 @@
+import { Op, fn, col, where as sqlWhere } from 'sequelize';
+import { Team, User, Session } from '../db/models';
+import { dummyPasswordHash, hashPassword, verifyPassword } from '../auth/password';
+import type { Role, SessionUser } from '../auth/types';
+
+export interface UserRow {
+	id: string;
+	email: string;
+	name: string;
+	role: Role;
+	teamId: string | null;
+	teamName: string | null;
+	active: boolean;
+	createdAt: string;
+}
+
+function toSessionUser(u: User): SessionUser {
+	return { id: u.id, email: u.email, name: u.name, role: u.role, teamId: u.teamId ?? null, unitSystem: u.unitSystem };
+}
+
+function byEmail(email: string) {
+	return sqlWhere(fn('lower', col('email')), email.trim().toLowerCase());
+}
+
+/**
+ * The active user with this e-mail and password, else null. An unknown e-mail still costs one
+ * Argon2 verification so response time does not reveal which addresses exist.
+ */
+export async function authenticate(email: string, password: string): Promise<SessionUser | null> {
+	const user = await User.findOne({ where: byEmail(email) });
+	if (!user) {
+		await verifyPassword(await dummyPasswordHash(), password);
+		return null;
+	}
+	const ok = await verifyPassword(user.passwordHash, password);
+	return ok && user.active ? toSessionUser(user) : null;
+}
+
+export async function listUsers(): Promise<UserRow[]> {
+	const users = await User.findAll({ include: [{ model: Team, as: 'team' }], order: [['name', 'ASC']] });
+	return users.map((u) => ({
+		id: u.id,
+		email: u.email,
+		name: u.name,
+		role: u.role,
+		teamId: u.teamId ?? null,
+		teamName: (u as unknown as { team?: Team }).team?.name ?? null,
+		active: u.active,
+		createdAt: u.createdAt.toISOString()
+	}));
+}
+
+export async function listTeams(): Promise<{ id: string; name: string }[]> {
+	const teams = await Team.findAll({ order: [['name', 'ASC']] });
+	return teams.map((t) => ({ id: t.id, name: t.name }));
+}
+
+export async function emailTaken(email: string): Promise<boolean> {
+	return (await User.count({ where: byEmail(email) })) > 0;
+}
+
+export async function createUser(input: {
+	name: string;
+	email: string;
+	role: Role;
+	teamId: string | null;
+	password: string;
+}): Promise<string> {
+	const user = await User.create({
+		name: input.name,
+		email: input.email.trim().toLowerCase(),
+		role: input.role,
+		teamId: input.teamId,
+		passwordHash: await hashPassword(input.password)
+	});
+	return user.id;
+}
+
+/** Changes role, team or active flag; deactivating ends every session of the user at once. */
+export async function updateUser(input: { id: string; role: Role; teamId: string | null; active: boolean }): Promise<boolean> {
+	const [count] = await User.update(
+		{ role: input.role, teamId: input.teamId, active: input.active },
+		{ where: { id: input.id } }
+	);
+	if (!input.active) await Session.destroy({ where: { userId: input.id } });
+	return count > 0;
+}
+
+/** Sets a new password and signs the user out everywhere (except, optionally, one session hash). */
+export async function changePassword(userId: string, password: string, keepSessionHash?: string): Promise<void> {
+	await User.update({ passwordHash: await hashPassword(password) }, { where: { id: userId } });
+	await Session.destroy({
+		where: keepSessionHash ? { userId, id: { [Op.ne]: keepSessionHash } } : { userId }
+	});
+}
+
+export async function setUnitSystem(userId: string, unitSystem: 'metric' | 'imperial'): Promise<void> {
+	await User.update({ unitSystem }, { where: { id: userId } });
+}
+
+export async function countActiveAdmins(): Promise<number> {
+	return User.count({ where: { role: 'admin', active: true } });
+}

@@ -1,0 +1,7 @@
+import { requirePermission } from '$lib/server/auth/guard';
+import type { PageServerLoad } from './$types';
+
+export const load: PageServerLoad = (event) => {
+	requirePermission(event, 'customer:manage');
+	return {};
+};
