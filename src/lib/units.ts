@@ -183,13 +183,15 @@ function readNumber(raw: string, original: string): NumberResult {
 	let m = MIXED.exec(s);
 	if (m) {
 		const den = Number(m[3]);
-		if (den === 0) return { ok: false, message: `“${original}”: a fraction cannot divide by zero.` };
+		if (den === 0)
+			return { ok: false, message: `“${original}”: a fraction cannot divide by zero.` };
 		return { ok: true, value: Number(m[1]) + Number(m[2]) / den };
 	}
 	m = FRACTION.exec(s);
 	if (m) {
 		const den = Number(m[2]);
-		if (den === 0) return { ok: false, message: `“${original}”: a fraction cannot divide by zero.` };
+		if (den === 0)
+			return { ok: false, message: `“${original}”: a fraction cannot divide by zero.` };
 		return { ok: true, value: Number(m[1]) / den };
 	}
 	if (/^\d+,\d+$/.test(s) || /,\d{1,2}$/.test(s) || /,\d{4,}/.test(s)) {
@@ -250,7 +252,10 @@ export function parseQuantity(
 
 	const numMatch = NUMBER_PART.exec(s);
 	if (!numMatch) {
-		return { ok: false, message: `“${original}” does not start with a number; enter e.g. ${info.example}.` };
+		return {
+			ok: false,
+			message: `“${original}” does not start with a number; enter e.g. ${info.example}.`
+		};
 	}
 	let numText = numMatch[0];
 	let rest = s.slice(numText.length);
@@ -313,21 +318,26 @@ export const parseArea = (text: string, system: UnitSystem = 'metric'): ParseRes
  */
 export function formatNumber(value: number, decimals: number, group: ' ' | ',' = ' '): string {
 	if (!Number.isFinite(value)) return String(value);
-	let text = value.toFixed(decimals);
-	if (text.startsWith('-') && Number(text) === 0) text = text.slice(1);
-	const neg = text.startsWith('-');
-	if (neg) text = text.slice(1);
-	const dot = text.indexOf('.');
-	const int = dot === -1 ? text : text.slice(0, dot);
-	const frac = dot === -1 ? '' : text.slice(dot);
-	if (int.length <= 3) return (neg ? '-' : '') + int + frac;
-	let out = '';
-	const head = int.length % 3;
-	if (head) out = int.slice(0, head);
-	for (let i = head; i < int.length; i += 3) {
-		out += (out ? group : '') + int.slice(i, i + 3);
+	const f = decimals === 0 ? 1 : decimals === 1 ? 10 : decimals === 2 ? 100 : 10 ** decimals;
+	const scaled = Math.round(Math.abs(value) * f);
+	if (scaled > Number.MAX_SAFE_INTEGER || decimals > 6) return value.toFixed(decimals);
+	const int = Math.floor(scaled / f);
+	let out = groupDigits(int, group);
+	if (decimals > 0) {
+		const frac = String(scaled - int * f);
+		out += '.' + (frac.length < decimals ? '0'.repeat(decimals - frac.length) + frac : frac);
 	}
-	return (neg ? '-' : '') + out + frac;
+	return value < 0 && scaled !== 0 ? '-' + out : out;
+}
+
+/** Integer digits in groups of three, e.g. 1234567 → "1 234 567". */
+function groupDigits(int: number, group: string): string {
+	const text = String(int);
+	if (int < 1000) return text;
+	const head = text.length % 3 || 3;
+	let out = text.slice(0, head);
+	for (let i = head; i < text.length; i += 3) out += group + text.slice(i, i + 3);
+	return out;
 }
 
 const flowDecimals = (v: number): number => (Math.abs(v) < 10 ? 2 : Math.abs(v) < 100 ? 1 : 0);
@@ -344,7 +354,11 @@ function pair(metric: string, imperial: string, system: UnitSystem, opts?: Forma
 }
 
 /** "1 100 mm (43.3 in)"; imperial first when `system` is 'imperial'. Input in millimetres. */
-export function formatLength(mm: number, system: UnitSystem = 'metric', opts?: FormatOptions): string {
+export function formatLength(
+	mm: number,
+	system: UnitSystem = 'metric',
+	opts?: FormatOptions
+): string {
 	return pair(
 		`${formatNumber(mm, 0)} mm`,
 		`${formatNumber(mm / MM_PER_IN, 1, ',')} in`,
@@ -354,12 +368,25 @@ export function formatLength(mm: number, system: UnitSystem = 'metric', opts?: F
 }
 
 /** "1 315 kg (2,899 lb)"; input in kilograms. */
-export function formatMass(kg: number, system: UnitSystem = 'metric', opts?: FormatOptions): string {
-	return pair(`${formatNumber(kg, 0)} kg`, `${formatNumber(kg / KG_PER_LB, 0, ',')} lb`, system, opts);
+export function formatMass(
+	kg: number,
+	system: UnitSystem = 'metric',
+	opts?: FormatOptions
+): string {
+	return pair(
+		`${formatNumber(kg, 0)} kg`,
+		`${formatNumber(kg / KG_PER_LB, 0, ',')} lb`,
+		system,
+		opts
+	);
 }
 
 /** "170 m³/h (100 cfm)"; input in m³/h. */
-export function formatAirFlow(m3h: number, system: UnitSystem = 'metric', opts?: FormatOptions): string {
+export function formatAirFlow(
+	m3h: number,
+	system: UnitSystem = 'metric',
+	opts?: FormatOptions
+): string {
 	const cfm = m3h / M3H_PER_CFM;
 	return pair(
 		`${formatNumber(m3h, flowDecimals(m3h))} m³/h`,
@@ -370,7 +397,11 @@ export function formatAirFlow(m3h: number, system: UnitSystem = 'metric', opts?:
 }
 
 /** "40.0 m² (431 ft²)"; input in m². */
-export function formatArea(m2: number, system: UnitSystem = 'metric', opts?: FormatOptions): string {
+export function formatArea(
+	m2: number,
+	system: UnitSystem = 'metric',
+	opts?: FormatOptions
+): string {
 	return pair(
 		`${formatNumber(m2, 1)} m²`,
 		`${formatNumber(m2 / M2_PER_FT2, 0, ',')} ft²`,

@@ -49,9 +49,9 @@ describe('sessions', () => {
 	it('an expired session sends the visitor back to /login', async () => {
 		const cookie = (await signInCookie(DEMO.rep))!;
 		const c = client(cookie);
-		expect((await c.get('/surveys')).status).toBe(200);
+		expect((await c.get('/account')).status).toBe(200);
 		await Session.update({ expiresAt: new Date(Date.now() - 1000) }, { where: { id: hashToken(cookie.split('=')[1]) } });
-		const res = await c.get('/surveys');
+		const res = await c.get('/account');
 		expect(res.status).toBe(303);
 		expect(res.headers.get('location')).toMatch(/^\/login/);
 	});
@@ -59,7 +59,7 @@ describe('sessions', () => {
 	it('signing out ends the session', async () => {
 		const c = await signIn(DEMO.rep);
 		expect((await c.action('/logout', {})).status).toBe(303);
-		expect((await c.get('/surveys')).status).toBe(303);
+		expect((await c.get('/account')).status).toBe(303);
 	});
 });
 
@@ -68,10 +68,10 @@ describe('deactivated users', () => {
 		const email = uniqueEmail('leaver');
 		const id = await createUser({ name: 'Leaver', email, role: 'rep', teamId: null, password: 'a-long-password-1' });
 		const c = await signIn(email, 'a-long-password-1');
-		expect((await c.get('/surveys')).status).toBe(200);
+		expect((await c.get('/account')).status).toBe(200);
 
 		await updateUser({ id, role: 'rep', teamId: null, active: false });
-		expect((await c.get('/surveys')).status).toBe(303);
+		expect((await c.get('/account')).status).toBe(303);
 		expect(await signInCookie(email, 'a-long-password-1')).toBeNull();
 		const user = await User.findByPk(id);
 		expect(user?.active).toBe(false);
@@ -85,7 +85,7 @@ describe('deactivated users', () => {
 		const res = await admin.action('/admin/users?/update', { id, role: 'rep', teamId: '' });
 		expect(res.status).toBe(200);
 		expect((await User.findByPk(id))?.active).toBe(false);
-		expect((await victim.get('/surveys')).status).toBe(303);
+		expect((await victim.get('/account')).status).toBe(303);
 	});
 });
 

@@ -75,7 +75,7 @@ export interface RuleParams {
 	comparisonEpsilon: number;
 }
 
-export const DEFAULT_PARAMS: Readonly<RuleParams> = Object.freeze({
+export const DEFAULT_PARAMS: Readonly<RuleParams> = deepFreeze<RuleParams>({
 	usableShare: { 'lead-acid': 0.8, 'lithium-ion': 0.9 },
 	chargeHours: { 'lead-acid': 8, 'lithium-ion': 3 },
 	coolHours: { 'lead-acid': 8, 'lithium-ion': 0 },
@@ -100,7 +100,12 @@ export const DEFAULT_PARAMS: Readonly<RuleParams> = Object.freeze({
 	trucksPerExchangePoint: 10,
 	batteryPriceCentsPerKwh: { 'lead-acid': 25_000, 'lithium-ion': 60_000 },
 	comparisonEpsilon: 1e-6
-}) as Readonly<RuleParams>;
+});
+
+function deepFreeze<T extends object>(o: T): Readonly<T> {
+	for (const v of Object.values(o)) if (v && typeof v === 'object') deepFreeze(v);
+	return Object.freeze(o);
+}
 
 /** Defaults overlaid with the given parameters (a shallow merge: nested records replace whole). */
 export function resolveParams(params?: Partial<RuleParams>): Readonly<RuleParams> {

@@ -27,7 +27,12 @@ export type CheckCode =
 	| 'ventilation'
 	| 'duty';
 
-export const SETUP_IDS: readonly SetupId[] = ['in-truck', 'roller-bed', 'trolley-stand', 'overhead-hoist'];
+export const SETUP_IDS: readonly SetupId[] = [
+	'in-truck',
+	'roller-bed',
+	'trolley-stand',
+	'overhead-hoist'
+];
 
 /** UI names of the setups (shared/DESIGN.md §2). */
 export const SETUP_NAMES: Readonly<Record<SetupId, string>> = {
@@ -49,7 +54,12 @@ export interface TruckSpec {
 	/** nominal system voltage, V */
 	voltage: number;
 	/** battery compartment; `heightWithRollerBedMm` is the usable height once a roller bed is fitted */
-	compartment: { lengthMm: number; widthMm: number; heightMm: number; heightWithRollerBedMm: number };
+	compartment: {
+		lengthMm: number;
+		widthMm: number;
+		heightMm: number;
+		heightWithRollerBedMm: number;
+	};
 	/** height of the roller bed's roller tops above the floor, mm */
 	rollerBedTopMm: number;
 	forkFit: {
@@ -195,7 +205,12 @@ export interface EquipmentSpecs {
 	'pallet-truck': { forkLengthMm: number; overallWidthMm: number; capacityKg: number };
 	'lifting-beam': { weightKg: number; ratedLoadKg: number };
 	'watering-kit': Record<string, unknown>;
-	charger: { chemistry: Chemistry; kind: ChargingMethod; voltage?: number; profile?: ChargerProfile };
+	charger: {
+		chemistry: Chemistry;
+		kind: ChargingMethod;
+		voltage?: number;
+		profile?: ChargerProfile;
+	};
 	battery: Omit<BatterySpec, 'sku' | 'name'>;
 }
 
