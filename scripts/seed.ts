@@ -1,6 +1,6 @@
 /**
  * Loads the invented demo data from seed-data/ when it is absent. Re-running adds only what is
- * missing (matched by e-mail, code or SKU); it never duplicates, changes or deletes data.
+ * missing (matched by e-mail, code, SKU or customer name); it never duplicates, changes or deletes data.
  * Refuses to run when TRAYWISE_ENV=production.
  */
 import { sequelize } from '../src/lib/server/db';

@@ -1,6 +1,7 @@
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { Battery, Equipment, Team, TruckModel, TruckModelBattery, User } from './models';
+import { Contact, Customer, Site } from './models/customers';
 import { hashPassword } from '../auth/password';
 import type { Role, UnitSystem } from './models';
 
@@ -37,6 +38,71 @@ interface CatalogueFile {
 		costCents?: number;
 		spec?: Record<string, unknown>;
 	}[];
+}
+
+interface CustomersFile {
+	customers: {
+		name: string;
+		accountNumber: string;
+		owner: string;
+		notes: string;
+		sites: {
+			name: string;
+			addressLine1: string;
+			addressLine2: string;
+			city: string;
+			postalCode: string;
+			country: string;
+			regionCode: string;
+		}[];
+		contacts: { name: string; roleTitle: string; email: string; phone: string; site: string | null }[];
+	}[];
+}
+
+/**
+ * Demo customers, matched by name; their sites and contacts by name within the customer.
+ * Existing records are left as they are.
+ */
+async function seedCustomers(file: CustomersFile): Promise<number> {
+	let added = 0;
+	for (const c of file.customers) {
+		const owner = await User.findOne({ where: { email: c.owner } });
+		let customer = await Customer.findOne({ where: { name: c.name }, order: [['createdAt', 'ASC']] });
+		if (!customer) {
+			customer = await Customer.create({
+				name: c.name,
+				accountNumber: c.accountNumber || null,
+				notes: c.notes,
+				ownerId: owner?.id ?? null,
+				teamId: owner?.teamId ?? null
+			});
+			added++;
+		}
+		const siteIds = new Map<string, string>();
+		for (const s of c.sites) {
+			const [site, created] = await Site.findOrCreate({
+				where: { customerId: customer.id, name: s.name },
+				defaults: { ...s, customerId: customer.id }
+			});
+			siteIds.set(s.name, site.id);
+			if (created) added++;
+		}
+		for (const k of c.contacts) {
+			const [, created] = await Contact.findOrCreate({
+				where: { customerId: customer.id, name: k.name },
+				defaults: {
+					customerId: customer.id,
+					siteId: k.site ? (siteIds.get(k.site) ?? null) : null,
+					name: k.name,
+					roleTitle: k.roleTitle,
+					email: k.email,
+					phone: k.phone
+				}
+			});
+			if (created) added++;
+		}
+	}
+	return added;
 }
 
 /** Adds whatever demo records are missing; returns how many were added. */
@@ -115,5 +181,8 @@ export async function seedDemo(): Promise<number> {
 			if (created) added++;
 		}
 	}
+
+	const customers = readJson<CustomersFile>('customers.json');
+	if (customers) added += await seedCustomers(customers);
 	return added;
 }
