@@ -4,6 +4,7 @@ import { uploadRequestSchema } from '$lib/schemas/upload';
 import { requirePermission, requireUser } from '$lib/server/auth/guard';
 import type { Permission } from '$lib/server/auth/permissions';
 import { customerExists } from '$lib/server/repositories/customers';
+import { getSurvey } from '$lib/server/repositories/surveys';
 import { storeUpload } from '$lib/server/uploads';
 import { MAX_FILES_PER_REQUEST, type OwnerType, type UploadResult } from '$lib/uploads';
 import type { RequestHandler } from './$types';
@@ -44,6 +45,14 @@ export const POST: RequestHandler = async (event) => {
 	requirePermission(event, ATTACH[ownerType]);
 	if (ownerType === 'customer' && !(await customerExists(ownerId))) {
 		return json({ message: 'There is no such customer.', errors: { ownerId: ['There is no such customer.'] } }, { status: 404 });
+	}
+
+	if (ownerType === 'survey') {
+		const survey = await getSurvey(ownerId, user);
+		if (!survey.ok) {
+			const message = survey.status === 404 ? 'There is no such survey.' : 'This survey belongs to another team.';
+			return json({ message, errors: { ownerId: [message] } }, { status: survey.status });
+		}
 	}
 
 	const entries = [...form.getAll('files'), ...form.getAll('files[]')];
