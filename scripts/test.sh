@@ -25,6 +25,9 @@ export SMTP_HOST=127.0.0.1 SMTP_PORT="${TEST_SMTP_PORT:-2526}"
 export PAYMENTS_API_HOST=127.0.0.1 PAYMENTS_API_PORT="${TEST_PAYMENTS_PORT:-12112}" PAYMENTS_API_PROTOCOL=http
 export PAYMENTS_SECRET_KEY=sk_test_traywise_local PAYMENTS_WEBHOOK_SECRET=whsec_traywise_test
 export PAYMENTS_WEBHOOK_URL="$APP_URL/api/webhooks/payments"
+# tests stop and start the SMTP catcher through this port; short mail retry back-off under test
+export SERVICES_CONTROL_PORT="${TEST_SERVICES_CONTROL_PORT:-$((SMTP_PORT + 1))}"
+export MAIL_RETRY_BASE_MS=200 MAIL_RETRY_MAX_MS=1000
 export BODY_SIZE_LIMIT=16M
 rm -rf "$UPLOAD_DIR" "$ARTIFACTS_DIR"; mkdir -p "$UPLOAD_DIR" "$ARTIFACTS_DIR"
 
@@ -43,7 +46,8 @@ log "building"
 npx vite build --logLevel error
 
 if [ -f scripts/services.ts ]; then
-	start_bg "$ARTIFACTS_DIR/services.log" npx tsx scripts/services.ts
+	# node --import tsx (not npx): the recorded PID is the services process itself, so cleanup stops it
+	start_bg "$ARTIFACTS_DIR/services.log" node --import tsx scripts/services.ts
 fi
 start_bg "$ARTIFACTS_DIR/app.log" node build
 wait_for_url "$APP_URL/api/health" 30

@@ -2,7 +2,9 @@ import { randomUUID } from 'node:crypto';
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { lucia } from '$lib/server/auth/lucia';
+import { building } from '$app/environment';
 import { isDatabaseDownError, sequelize } from '$lib/server/db';
+import { startInAppMailWorker } from '$lib/server/email/worker';
 
 export const init: ServerInit = async () => {
 	try {
@@ -10,6 +12,11 @@ export const init: ServerInit = async () => {
 	} catch (err) {
 		// The app still starts; /api/health reports the database as down until it answers.
 		console.error('[traywise] database not reachable at start:', (err as Error).message);
+	}
+	if (!building) {
+		// once per process (MAIL_WORKER_IN_APP=false leaves delivery to scripts/mail-worker.ts)
+		const worker = startInAppMailWorker();
+		if (worker) process.once('sveltekit:shutdown', () => void worker.stop());
 	}
 };
 
@@ -81,7 +88,8 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 		response = new Response(response.body, response);
 		response.headers.set('x-content-type-options', 'nosniff');
 	}
-	response.headers.set('x-frame-options', 'DENY');
+	// a route that sets its own framing rule (the caught-mail preview, framed by our own page) keeps it
+	if (!response.headers.has('x-frame-options')) response.headers.set('x-frame-options', 'DENY');
 	response.headers.set('referrer-policy', 'strict-origin-when-cross-origin');
 	response.headers.set('permissions-policy', 'camera=(self), microphone=(), geolocation=()');
 	response.headers.delete('x-powered-by');

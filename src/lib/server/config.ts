@@ -43,7 +43,31 @@ export const config = {
 			webhookSecret: env('PAYMENTS_WEBHOOK_SECRET', 'whsec_traywise_local'),
 			host: process.env.PAYMENTS_API_HOST || undefined,
 			port: process.env.PAYMENTS_API_PORT ? Number(process.env.PAYMENTS_API_PORT) : undefined,
-			protocol: (process.env.PAYMENTS_API_PROTOCOL || 'https') as 'http' | 'https'
+			protocol: (process.env.PAYMENTS_API_PROTOCOL || 'https') as 'http' | 'https',
+			/** where the provider (or the local fake) posts signed events */
+			webhookUrl: env('PAYMENTS_WEBHOOK_URL', `${env('ORIGIN', `http://127.0.0.1:${env('PORT', '3000')}`)}/api/webhooks/payments`)
 		};
+	},
+	/** The mail outbox worker: polling, retry back-off (ms) and the lease a claimed row is held for. */
+	get mail() {
+		return {
+			workerInApp: env('MAIL_WORKER_IN_APP', 'true') !== 'false',
+			pollMs: positiveInt('MAIL_POLL_MS', 1_000),
+			retryBaseMs: positiveInt('MAIL_RETRY_BASE_MS', 5_000),
+			retryMaxMs: positiveInt('MAIL_RETRY_MAX_MS', 600_000),
+			maxAttempts: positiveInt('MAIL_MAX_ATTEMPTS', 40),
+			leaseMs: positiveInt('MAIL_SEND_LEASE_MS', 120_000)
+		};
+	},
+	/** Local stand-ins (scripts/services.ts): an optional control port used by integration tests. */
+	get devServices() {
+		const port = process.env.SERVICES_CONTROL_PORT;
+		return { controlPort: port ? Number(port) : undefined };
 	}
 };
+
+function positiveInt(name: string, fallback: number): number {
+	const value = Number(env(name, String(fallback)));
+	if (!Number.isFinite(value) || value <= 0) throw new Error(`${name} must be a positive number (see .env.example)`);
+	return Math.round(value);
+}
