@@ -105,8 +105,10 @@ describe('the seeded price book', () => {
 		const skus = (await allPriceItems(active.id)).map((i) => i.sku);
 		expect(skus.length).toBeGreaterThan(20);
 		let queries = 0;
-		const before = sequelize.options.logging;
-		sequelize.options.logging = () => {
+		// Sequelize reads `options.logging` at every query; the type does not declare `options`
+		const options = (sequelize as unknown as { options: { logging: unknown } }).options;
+		const before = options.logging;
+		options.logging = () => {
 			queries++;
 		};
 		try {
@@ -115,7 +117,7 @@ describe('the seeded price book', () => {
 			expect(few.size).toBe(2);
 			expect(all.size).toBe(skus.length);
 		} finally {
-			sequelize.options.logging = before;
+			options.logging = before;
 		}
 		expect(queries).toBe(2);
 	});
