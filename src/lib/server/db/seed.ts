@@ -4,6 +4,9 @@ import { Battery, Equipment, Team, TruckModel, TruckModelBattery, User } from '.
 import { Contact, Customer, Site } from './models/customers';
 import { hashPassword } from '../auth/password';
 import type { Role, UnitSystem } from './models';
+import { TaxRate } from './models/pricing';
+import { lineKindForEquipment } from '../quotes/price-book-kinds';
+import { countPriceBookVersions, createDraftVersion, publishVersion, type PriceItem } from '../repositories/pricing';
 
 const SEED_DIR = path.resolve(process.env.SEED_DIR ?? 'seed-data');
 
@@ -184,5 +187,69 @@ export async function seedDemo(): Promise<number> {
 
 	const customers = readJson<CustomersFile>('customers.json');
 	if (customers) added += await seedCustomers(customers);
+	added += await seedPricing();
 	return added;
+}
+
+/** Invented demo tax rates by region code (basis points: 7.25 % = 725 bp). */
+const DEMO_TAX_RATES = [
+	{ regionCode: 'HB', label: 'Harbour district', rateBp: 725 },
+	{ regionCode: 'UP', label: 'Upland county', rateBp: 650 },
+	{ regionCode: 'EXEMPT', label: 'Tax-exempt customer (certificate on file)', rateBp: 0 },
+	// the demo customers' sites use these two codes; the rates are invented for the demo
+	{ regionCode: 'WA', label: 'Washington sites (demo rate)', rateBp: 890 },
+	{ regionCode: 'OR', label: 'Oregon sites (demo rate)', rateBp: 0 }
+];
+
+/** Invented service lines every quote can carry, cents. */
+const SERVICE_ITEMS: PriceItem[] = [
+	{ sku: 'TW-FREIGHT', description: 'Freight to site, per truck', kind: 'freight', listCents: 65_000, costCents: 48_000 },
+	{
+		sku: 'TW-INSTALL',
+		description: 'Installation, commissioning and operator handover, per truck',
+		kind: 'installation',
+		listCents: 45_000,
+		costCents: 29_000
+	}
+];
+
+/**
+ * Demo tax rates that are missing (by region code), and — only when no price-book version exists
+ * at all — an opening ACTIVE version priced from the catalogue: every truck model (SKU = truck code),
+ * battery and equipment item that is not retired, plus freight and installation.
+ */
+async function seedPricing(): Promise<number> {
+	let added = 0;
+	for (const rate of DEMO_TAX_RATES) {
+		const [, created] = await TaxRate.findOrCreate({ where: { regionCode: rate.regionCode }, defaults: rate });
+		if (created) added++;
+	}
+	if ((await countPriceBookVersions()) > 0) return added;
+
+	const [trucks, batteries, equipment] = await Promise.all([
+		TruckModel.findAll({ where: { retired: false }, order: [['code', 'ASC']] }),
+		Battery.findAll({ where: { retired: false }, order: [['code', 'ASC']] }),
+		Equipment.findAll({ where: { retired: false }, order: [['sku', 'ASC']] })
+	]);
+	const items: PriceItem[] = [
+		...trucks.map((t) => ({ sku: t.code, description: t.name, kind: 'truck' as const, listCents: t.priceCents, costCents: t.costCents })),
+		...batteries.map((b) => ({ sku: b.code, description: b.name, kind: 'battery' as const, listCents: b.priceCents, costCents: b.costCents })),
+		...equipment.map((e) => ({
+			sku: e.sku,
+			description: e.name,
+			kind: lineKindForEquipment(e.kind),
+			listCents: e.priceCents,
+			costCents: e.costCents
+		})),
+		...SERVICE_ITEMS
+	];
+	const id = await createDraftVersion({
+		label: 'Opening price book',
+		effectiveDate: `${new Date().getUTCFullYear()}-01-01`,
+		createdBy: null,
+		items
+	});
+	const published = await publishVersion(id, null);
+	if (!published.ok) throw new Error(`could not publish the opening price book: ${published.reason}`);
+	return added + items.length + 1;
 }
