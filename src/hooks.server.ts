@@ -3,7 +3,7 @@ import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { lucia } from '$lib/server/auth/lucia';
 import { building } from '$app/environment';
-import { isDatabaseDownError, sequelize } from '$lib/server/db';
+import { isDatabaseDownError, queryCounter, sequelize } from '$lib/server/db';
 import { startInAppMailWorker } from '$lib/server/email/worker';
 
 export const init: ServerInit = async () => {
@@ -97,7 +97,20 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-export const handle = sequence(securityHeaders, databaseDown, session);
+/** With TRAYWISE_COUNT_QUERIES=1, every response says how many SQL statements it took. */
+const countQueries: Handle = async ({ event, resolve }) => {
+	if (process.env.TRAYWISE_COUNT_QUERIES !== '1') return resolve(event);
+	const store = { n: 0 };
+	const response = await queryCounter.run(store, () => resolve(event));
+	try {
+		response.headers.set('x-sql-queries', String(store.n));
+	} catch {
+		// immutable headers: leave them
+	}
+	return response;
+};
+
+export const handle = sequence(countQueries, securityHeaders, databaseDown, session);
 
 export const handleError: HandleServerError = ({ error, event, status }) => {
 	const errorId = randomUUID();

@@ -1,3 +1,4 @@
+import { AsyncLocalStorage } from 'node:async_hooks';
 import pg from 'pg';
 import { Sequelize } from 'sequelize';
 import { config } from '../config';
@@ -49,3 +50,13 @@ export function isDatabaseDownError(err: unknown): boolean {
 		)
 	);
 }
+
+/**
+ * Counts the SQL statements run while handling one request (tests and the benchmark read it from
+ * the `x-sql-queries` response header when TRAYWISE_COUNT_QUERIES=1).
+ */
+export const queryCounter = new AsyncLocalStorage<{ n: number }>();
+(sequelize as unknown as { addHook(name: string, fn: () => void): void }).addHook('beforeQuery', () => {
+	const store = queryCounter.getStore();
+	if (store) store.n++;
+});

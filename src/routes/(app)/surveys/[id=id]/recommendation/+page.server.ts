@@ -4,6 +4,7 @@ import { chooseSetupSchema } from '$lib/schemas/survey';
 import { buildEvaluateBody } from '$lib/survey-input';
 import { runEvaluation } from '$lib/server/evaluation';
 import { chooseSetup, getSurvey } from '$lib/server/repositories/surveys';
+import { createQuoteFromSurvey } from '$lib/server/quotes/workflow';
 import { can } from '$lib/server/auth/permissions';
 import { randomUUID } from 'node:crypto';
 import type { Actions, PageServerLoad } from './$types';
@@ -38,5 +39,13 @@ export const actions: Actions = {
 		await chooseSetup(event.params.id, user, parsed.data.setup, outcome.result, outcome.input);
 		redirect(303, `/surveys/${event.params.id}/recommendation?chosen=1`);
 	}
-
+,
+	quote: async (event) => {
+		const user = requirePermission(event, 'quote:edit');
+		const form = await event.request.formData();
+		const token = form.get('clientToken');
+		const made = await createQuoteFromSurvey(event.params.id, user, typeof token === 'string' && /^[0-9a-f-]{36}$/.test(token) ? token : null);
+		if (!made.ok) return fail(made.status, { chooseError: made.message });
+		redirect(303, `/quotes/${made.value}`);
+	}
 };

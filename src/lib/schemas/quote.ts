@@ -1,0 +1,41 @@
+import { z } from 'zod';
+
+/** A percentage typed by a person ("12.5") as whole basis points (1 250). */
+export const percentBp = z
+	.number({ error: 'Enter a percentage.' })
+	.min(0, 'A discount cannot be negative.')
+	.max(100, 'A discount cannot exceed 100 %.')
+	.transform((v) => Math.round(v * 100));
+
+export const quoteLineEditSchema = z.object({
+	sku: z.string().trim().min(1).max(64),
+	quantity: z.number({ error: 'Enter a quantity.' }).int('Quantities are whole numbers.').min(0).max(10_000),
+	discountPercent: percentBp
+});
+
+/** The rep's edits to a draft: prices never come from the browser, only SKUs, quantities and discounts. */
+export const quoteEditSchema = z.object({
+	lines: z.array(quoteLineEditSchema).min(1, 'A quote needs at least one line.').max(200),
+	overallDiscountPercent: percentBp,
+	taxRegion: z.string().trim().max(20).nullable(),
+	notes: z.string().max(4_000),
+	contactName: z.string().trim().max(120),
+	contactEmail: z.union([z.literal(''), z.string().trim().email('Enter a valid e-mail address.').max(254)])
+});
+export type QuoteEdit = z.input<typeof quoteEditSchema>;
+
+export const quoteActionSchema = z.object({
+	action: z.enum(['submit', 'approve', 'request-changes', 'mark-ready', 'send', 'revise']),
+	comment: z.string().trim().max(2_000).optional()
+});
+
+export const quoteListQuerySchema = z.object({
+	state: z.enum(['draft', 'awaiting-approval', 'approved', 'changes-requested', 'sent', 'viewed', 'accepted', 'deposit-paid', 'expired', 'superseded']).optional().catch(undefined),
+	owner: z.uuid().optional().catch(undefined),
+	customer: z.string().trim().max(100).optional().catch(undefined),
+	from: z.iso.date().optional().catch(undefined),
+	to: z.iso.date().optional().catch(undefined),
+	sort: z.enum(['updated', 'created', 'total', 'customer', 'number']).optional().catch(undefined),
+	dir: z.enum(['asc', 'desc']).optional().catch(undefined),
+	page: z.coerce.number().int().min(1).max(10_000).optional().catch(undefined)
+});

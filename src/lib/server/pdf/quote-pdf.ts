@@ -1,0 +1,260 @@
+import PDFDocument from 'pdfkit';
+import { formatMoney, formatBp } from '../../money';
+import { formatAirFlow, formatArea, formatLength, formatMass } from '../../units';
+import { compartmentScene } from '../../drawing/compartment';
+import { drawCompartmentScene } from './drawing';
+import { registerFonts, printable } from './fonts';
+import type { QuoteView } from '../repositories/quotes';
+import type { EvaluateResult, ResolvedInput, Check } from '../rules/types';
+import { priceLine, type LineKind } from '../quotes/pricing';
+
+/** What the PDF needs from the company settings. */
+export interface PdfSettings {
+	dealerName: string;
+	dealerAddress: string;
+	dealerPhone?: string | null;
+	dealerEmail?: string | null;
+	logo?: Buffer | null;
+	currency?: string;
+	timeZone?: string;
+}
+
+const INK = '#0f172a';
+const MUTED = '#475569';
+const TIDE = '#1c605d';
+const EMBER = '#92400e';
+const RED = '#b91c1c';
+const MARGIN = 48;
+
+function figure(value: number | null, unit: string): string {
+	if (value == null) return '—';
+	if (unit === 'mm') return formatLength(value, 'metric');
+	if (unit === 'kg') return formatMass(value, 'metric');
+	if (unit === 'm³/h' || unit === 'm3/h') return formatAirFlow(value, 'metric');
+	if (unit === 'm²' || unit === 'm2') return formatArea(value, 'metric');
+	return `${Number.isInteger(value) ? value : value.toFixed(2)} ${unit}`;
+}
+
+function dateText(iso: string | null, timeZone: string): string {
+	if (!iso) return '—';
+	return new Date(iso).toLocaleDateString('en-US', { year: 'numeric', month: 'long', day: 'numeric', timeZone });
+}
+
+/**
+ * The customer's quote document: dealer and customer, site summary, the chosen setup and why, the
+ * checks with their numbers in both unit systems, the to-scale drawing, the priced lines (no cost
+ * or margin), tax, total, deposit, validity, terms, safety cautions and an acceptance block; the
+ * quote number with revision and the page number on every page.
+ */
+export async function buildQuotePdf(view: QuoteView, settings: PdfSettings): Promise<Buffer> {
+	const rev = view.revision;
+	const result = rev.engineResult as EvaluateResult;
+	const input = rev.engineInput as ResolvedInput;
+	const setup = result.setups.find((s) => s.id === rev.setupId) ?? result.setups[0];
+	const currency = settings.currency ?? 'USD';
+	const tz = settings.timeZone ?? 'UTC';
+	const money = (c: number) => formatMoney(c, currency);
+
+	const doc = new PDFDocument({
+		size: 'LETTER',
+		margins: { top: MARGIN + 8, bottom: MARGIN + 16, left: MARGIN, right: MARGIN },
+		bufferPages: true,
+		info: { Title: `Quote ${rev.number}`, Author: printable(settings.dealerName), Subject: 'Battery handling quote', Creator: 'Traywise' },
+		autoFirstPage: true
+	});
+	registerFonts(doc);
+	const chunks: Buffer[] = [];
+	doc.on('data', (c: Buffer) => chunks.push(c));
+	const done = new Promise<Buffer>((resolve, reject) => {
+		doc.on('end', () => resolve(Buffer.concat(chunks)));
+		doc.on('error', reject);
+	});
+
+	const W = doc.page.width - MARGIN * 2;
+	const heading = (text: string) => {
+		ensure(40);
+		doc.moveDown(0.6).font('Bold').fontSize(13).fillColor(TIDE).text(text, MARGIN, doc.y, { width: W });
+		doc.moveTo(MARGIN, doc.y + 2).lineTo(MARGIN + W, doc.y + 2).lineWidth(0.6).strokeColor(TIDE).stroke();
+		doc.moveDown(0.4).font('Body').fontSize(9.5).fillColor(INK);
+	};
+	const para = (text: string, opts: PDFKit.Mixins.TextOptions = {}) => {
+		doc.font('Body').fontSize(9.5).fillColor(INK).text(printable(text), MARGIN, doc.y, { width: W, ...opts });
+	};
+	function ensure(space: number) {
+		if (doc.y + space > doc.page.height - doc.page.margins.bottom) doc.addPage();
+	}
+
+	// ---- dealer and customer
+	const top = doc.y;
+	let logoW = 0;
+	if (settings.logo) {
+		try {
+			doc.image(settings.logo, MARGIN, top, { fit: [120, 48] });
+			logoW = 130;
+		} catch {
+			logoW = 0; // an unreadable logo never stops a quote
+		}
+	}
+	doc.font('Bold').fontSize(14).fillColor(INK).text(printable(settings.dealerName), MARGIN + logoW, top, { width: W / 2 - logoW });
+	doc.font('Body').fontSize(9).fillColor(MUTED).text(printable([settings.dealerAddress, settings.dealerPhone, settings.dealerEmail].filter(Boolean).join('\n')), { width: W / 2 - logoW });
+	const leftBottom = doc.y;
+	doc.font('Bold').fontSize(18).fillColor(TIDE).text('Quote', MARGIN + W / 2, top, { width: W / 2, align: 'right' });
+	doc.font('Semi').fontSize(11).fillColor(INK).text(rev.number, { width: W / 2, align: 'right' });
+	doc.font('Body').fontSize(9).fillColor(MUTED).text(
+		[`Revision ${rev.revision}`, `Sent ${dateText(rev.sentAt, tz)}`, `Valid until ${dateText(rev.validUntil, tz)}`, `Prepared by ${printable(view.ownerName)}`].join('\n'),
+		{ width: W / 2, align: 'right' }
+	);
+	doc.y = Math.max(leftBottom, doc.y) + 10;
+
+	heading('Customer and site');
+	para(`${view.customerName}${rev.contactName ? ` — attention ${rev.contactName}` : ''}`);
+	para([view.siteName, ...view.siteAddress].filter(Boolean).join(', '));
+	const op = input.operation;
+	para(
+		`${input.fleet.trucks} × ${input.truck.name ?? 'truck'} (${input.truck.voltage} V) with ${input.battery.name ?? `${input.battery.capacityAh} Ah ${input.battery.chemistry} battery`}; ` +
+			`${op.shiftsPerDay} shift${op.shiftsPerDay === 1 ? '' : 's'} of ${op.hoursPerShift} h, ${op.daysPerWeek} days a week, ${op.energyKwhPerHour} kWh per working hour, ${op.charging} charging.`
+	);
+
+	// ---- setup and why
+	heading(`The setup: ${setup.name}`);
+	para(
+		`${result.batteriesPerTruck} batter${result.batteriesPerTruck === 1 ? 'y' : 'ies'} per truck · equivalent battery usage ${result.ebu.toFixed(2)} · ${result.changesPerTruckPerDay} battery change${result.changesPerTruckPerDay === 1 ? '' : 's'} per truck a day.`
+	);
+	for (const r of setup.reasons) para(`• ${r}`, { indent: 8 });
+	const others = result.setups.filter((s) => s.id !== setup.id).sort((a, b) => a.rank - b.rank);
+	if (others.length) {
+		doc.moveDown(0.3);
+		doc.font('Semi').fontSize(9.5).text('Why not the others', MARGIN, doc.y, { width: W });
+		for (const o of others) {
+			const problem = o.checks.find((c) => c.result === 'fail') ?? o.checks.find((c) => c.result === 'warn');
+			para(`• ${o.name} (rank ${o.rank}, ${o.verdict.replace(/-/g, ' ')}): ${problem ? problem.message : (o.reasons[0] ?? '')}`, { indent: 8 });
+		}
+	}
+	if (setup.id !== 'in-truck') {
+		para('The latch adapter holds battery and trolley to the pallet truck; without it they would sit loose on the forks while moved.', { oblique: false });
+	}
+
+	// ---- checks
+	heading('Compatibility checks');
+	const cols = [MARGIN, MARGIN + 92, MARGIN + 132, MARGIN + 252, MARGIN + 372];
+	const checkRow = (c: Check) => {
+		const msg = printable(c.message + (c.remedy ? ` Remedy: ${c.remedy}` : ''));
+		doc.font('Body').fontSize(8.5);
+		const h = Math.max(doc.heightOfString(msg, { width: W - (cols[4] - MARGIN) }), 11) + 4;
+		ensure(h);
+		const y = doc.y;
+		doc.fillColor(INK).font('Semi').text(c.code, cols[0], y, { width: 90 });
+		doc.fillColor(c.result === 'fail' ? RED : c.result === 'warn' ? EMBER : TIDE).text(c.result.toUpperCase(), cols[1], y, { width: 40 });
+		doc.fillColor(INK).font('Body').text(figure(c.measured, c.unit), cols[2], y, { width: 118 });
+		doc.text(figure(c.limit, c.unit), cols[3], y, { width: 118 });
+		doc.text(msg, cols[4], y, { width: W - (cols[4] - MARGIN) });
+		doc.y = y + h;
+	};
+	doc.font('Semi').fontSize(8.5).fillColor(MUTED);
+	const hy = doc.y;
+	['Check', 'Result', 'Measured', 'Limit', 'What it means'].forEach((t, i) => doc.text(t, cols[i], hy, { width: 110 }));
+	doc.y = hy + 13;
+	for (const c of setup.checks) checkRow(c);
+
+	// ---- drawing
+	heading('Side view of the compartment, to scale');
+	ensure(250);
+	const scene = compartmentScene({
+		truck: input.truck,
+		battery: input.battery,
+		setup: setup.id,
+		palletTruck: input.site.palletTrucks[0],
+		stand: input.site.rollerStands[0],
+		crane: input.site.crane,
+		checks: setup.checks
+	});
+	const dy = doc.y;
+	drawCompartmentScene(doc, scene, { x: MARGIN, y: dy, width: W, height: 230, system: 'metric', font: 'Body' });
+	doc.y = dy + 236;
+
+	// ---- priced lines
+	heading('Price');
+	const pc = [MARGIN, MARGIN + 250, MARGIN + 290, MARGIN + 370, MARGIN + 420];
+	doc.font('Semi').fontSize(8.5).fillColor(MUTED);
+	const py = doc.y;
+	['Item', 'Qty', 'Unit price', 'Discount', 'Amount'].forEach((t, i) => doc.text(t, pc[i], py, { width: i === 0 ? 245 : 75, align: i === 0 ? 'left' : 'right' }));
+	doc.y = py + 13;
+	for (const l of view.lines) {
+		const priced = priceLine({ ...l, kind: l.kind as LineKind, noCharge: l.noCharge });
+		const desc = printable(`${l.description} (${l.sku})`);
+		doc.font('Body').fontSize(8.5);
+		const h = Math.max(doc.heightOfString(desc, { width: 245 }), 11) + 3;
+		ensure(h);
+		const y = doc.y;
+		doc.fillColor(INK).text(desc, pc[0], y, { width: 245 });
+		doc.text(String(l.quantity), pc[1], y, { width: 35, align: 'right' });
+		doc.text(l.noCharge ? 'included' : money(l.unitListCents), pc[2], y, { width: 75, align: 'right' });
+		doc.text(priced.lineDiscountBp ? formatBp(priced.lineDiscountBp) : '', pc[3], y, { width: 45, align: 'right' });
+		doc.text(l.noCharge ? money(0) : money(priced.netCents), pc[4], y, { width: W - (pc[4] - MARGIN), align: 'right' });
+		doc.y = y + h;
+	}
+	const t = rev.totals;
+	const totalRow = (label: string, value: string, bold = false) => {
+		ensure(14);
+		const y = doc.y;
+		doc.font(bold ? 'Bold' : 'Body').fontSize(bold ? 10.5 : 9).fillColor(INK).text(label, pc[2] - 120, y, { width: 250, align: 'right' });
+		doc.text(value, pc[4], y, { width: W - (pc[4] - MARGIN), align: 'right' });
+		doc.y = y + (bold ? 15 : 12);
+	};
+	doc.moveTo(pc[2] - 120, doc.y + 2).lineTo(MARGIN + W, doc.y + 2).lineWidth(0.5).strokeColor(MUTED).stroke();
+	doc.y += 6;
+	totalRow('Subtotal', money(t.subtotalCents));
+	if (t.overallDiscountCents) totalRow(`Discount (${formatBp(t.overallDiscountBp)})`, `−${money(t.overallDiscountCents)}`);
+	totalRow('Net before tax', money(t.netBeforeTaxCents));
+	totalRow(`Tax${rev.taxLabel ? ` — ${printable(rev.taxLabel)}` : ''} (${formatBp(t.taxRateBp)})`, money(t.taxCents));
+	totalRow('Total', money(t.totalCents), true);
+	totalRow(`Deposit due on acceptance (${formatBp(t.depositShareBp)})`, money(t.depositCents), true);
+	totalRow('Balance due on delivery', money(t.balanceCents));
+	para(`This quote is valid until ${dateText(rev.validUntil, tz)}. Prices from price book ${printable(rev.priceBookLabel)}.`);
+	if (rev.notes) {
+		heading('Notes');
+		para(rev.notes);
+	}
+
+	// ---- terms
+	if (rev.terms) {
+		heading('Terms');
+		doc.font('Body').fontSize(8.5).fillColor(INK).text(printable(rev.terms), MARGIN, doc.y, { width: W });
+	}
+
+	// ---- safety
+	heading('Safety cautions');
+	for (const c of result.cautions) {
+		ensure(12);
+		doc.font('Body').fontSize(8.5).fillColor(INK).text(`• ${printable(c)}`, MARGIN, doc.y, { width: W, indent: 0 });
+	}
+
+	// ---- acceptance
+	ensure(130);
+	heading('Acceptance');
+	para(`We accept quote ${rev.number} as set out above, including the deposit of ${money(t.depositCents)} due on acceptance.`);
+	doc.moveDown(1.5);
+	const ay = doc.y;
+	const field = (label: string, x: number, w: number) => {
+		doc.moveTo(x, ay + 16).lineTo(x + w, ay + 16).lineWidth(0.5).strokeColor(INK).stroke();
+		doc.font('Body').fontSize(8).fillColor(MUTED).text(label, x, ay + 19, { width: w });
+	};
+	field('Name', MARGIN, 150);
+	field('Signature', MARGIN + 170, 170);
+	field('Date', MARGIN + 360, W - 360);
+	doc.y = ay + 40;
+	para('The customer may also accept online through the private link sent with this quote.');
+
+	// ---- page furniture on every page
+	const range = doc.bufferedPageRange();
+	for (let i = range.start; i < range.start + range.count; i++) {
+		doc.switchToPage(i);
+		const bottom = doc.page.height - MARGIN + 4;
+		doc.page.margins.bottom = 0;
+		doc.font('Body').fontSize(8).fillColor(MUTED);
+		doc.text(`${rev.number} · revision ${rev.revision}`, MARGIN, bottom, { width: W / 2, lineBreak: false });
+		doc.text(`Page ${i - range.start + 1} of ${range.count}`, MARGIN + W / 2, bottom, { width: W / 2, align: 'right', lineBreak: false });
+	}
+	doc.end();
+	return done;
+}

@@ -1,0 +1,43 @@
+import { error, json } from '@sveltejs/kit';
+import { requirePermission } from '$lib/server/auth/guard';
+import { can } from '$lib/server/auth/permissions';
+import { quoteActionSchema } from '$lib/schemas/quote';
+import { fieldErrors } from '$lib/server/evaluation';
+import { act } from '$lib/server/quotes/workflow';
+import { getQuote } from '$lib/server/repositories/quotes';
+import type { RequestHandler } from './$types';
+
+const NEEDED = {
+	submit: 'quote:submit',
+	'mark-ready': 'quote:submit',
+	approve: 'quote:approve',
+	'request-changes': 'quote:approve',
+	send: 'quote:send',
+	revise: 'quote:edit'
+} as const;
+
+/** The quote's state and history (JSON). */
+export const GET: RequestHandler = async (event) => {
+	const user = requirePermission(event, 'quote:read');
+	const found = await getQuote(event.params.id, user);
+	if (!found.ok) error(found.status, found.status === 404 ? 'No such quote.' : 'This quote belongs to another team.');
+	const q = found.value;
+	return json({ id: q.id, number: q.revision.number, revision: q.revision.revision, state: q.revision.state, events: q.events });
+};
+
+/** `{ action, comment? }` — a state change, decided by the one transitions module. 409 when refused. */
+export const POST: RequestHandler = async (event) => {
+	const user = requirePermission(event, 'quote:read');
+	let body: unknown;
+	try {
+		body = await event.request.json();
+	} catch {
+		return json({ message: 'The body is not valid JSON.' }, { status: 400 });
+	}
+	const parsed = quoteActionSchema.safeParse(body);
+	if (!parsed.success) return json({ message: 'Unknown action.', errors: fieldErrors(parsed.error.issues) }, { status: 400 });
+	if (!can(user.role, NEEDED[parsed.data.action])) return json({ message: 'Your role does not allow this.' }, { status: 403 });
+	const done = await act(event.params.id, { user, role: user.role }, parsed.data.action, { comment: parsed.data.comment });
+	if (!done.ok) return json({ message: done.message }, { status: done.status });
+	return json(done.value);
+};
