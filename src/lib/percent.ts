@@ -25,7 +25,10 @@ export function parsePercentBp(text: string): PercentParseResult {
 	const match = PERCENT.exec(typed);
 	if (!match || (match[1] === '' && match[2] === undefined)) {
 		if (/^\d*\.\d{3,}\s*%?$/.test(typed))
-			return { ok: false, message: `"${typed}" has more than two decimals; 7.25 % is as fine as it goes.` };
+			return {
+				ok: false,
+				message: `"${typed}" has more than two decimals; 7.25 % is as fine as it goes.`
+			};
 		if (/^\d+,\d+\s*%?$/.test(typed))
 			return { ok: false, message: `Write decimals after a point: ${typed.replace(',', '.')}.` };
 		return { ok: false, message: `"${typed}" is not a percentage like 10 or 7.25 %.` };
@@ -37,7 +40,8 @@ export function parsePercentBp(text: string): PercentParseResult {
 
 /** Basis points as the text a person would type: 725 → "7.25", 1000 → "10", 5 → "0.05". */
 export function percentText(bp: number): string {
-	if (!Number.isSafeInteger(bp) || bp < 0) throw new RangeError(`not a rate in basis points: ${bp}`);
+	if (!Number.isSafeInteger(bp) || bp < 0)
+		throw new RangeError(`not a rate in basis points: ${bp}`);
 	const whole = Math.floor(bp / 100);
 	const rest = bp % 100;
 	if (rest === 0) return String(whole);

@@ -17,7 +17,12 @@ export const STATUS_LABELS: Record<string, string> = {
 	archived: 'Archived'
 };
 
-const dayFormat = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+const dayFormat = new Intl.DateTimeFormat('en-GB', {
+	day: 'numeric',
+	month: 'short',
+	year: 'numeric',
+	timeZone: 'UTC'
+});
 
 /** A calendar date 'YYYY-MM-DD' as "1 Apr 2026". */
 export function formatDay(isoDate: string): string {
@@ -30,8 +35,16 @@ export function formatStamp(iso: string, timeZone: string): string {
 	const d = new Date(iso);
 	if (Number.isNaN(d.getTime())) return '';
 	try {
-		return new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone }).format(d);
+		return new Intl.DateTimeFormat('en-GB', {
+			dateStyle: 'medium',
+			timeStyle: 'short',
+			timeZone
+		}).format(d);
 	} catch {
-		return new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' }).format(d);
+		return new Intl.DateTimeFormat('en-GB', {
+			dateStyle: 'medium',
+			timeStyle: 'short',
+			timeZone: 'UTC'
+		}).format(d);
 	}
 }

@@ -18,7 +18,11 @@ export function makePng(
 	width: number,
 	height: number,
 	paint: (x: number, y: number) => [number, number, number, number] = (x, y) =>
-		Math.abs(y - height / 2) < height / 6 ? [238, 250, 248, 255] : x < width / 4 ? [217, 119, 6, 255] : [28, 96, 93, 255]
+		Math.abs(y - height / 2) < height / 6
+			? [238, 250, 248, 255]
+			: x < width / 4
+				? [217, 119, 6, 255]
+				: [28, 96, 93, 255]
 ): Buffer {
 	const ihdr = Buffer.alloc(13);
 	ihdr.writeUInt32BE(width, 0);
@@ -41,14 +45,18 @@ export function makePng(
 
 /** The marker skeleton of a baseline JPEG of `width` × `height` (enough for header checks). */
 export function makeJpegSkeleton(width: number, height: number): Buffer {
-	const sof = Buffer.from([0xff, 0xc0, 0x00, 0x11, 0x08, 0, 0, 0, 0, 0x03, 1, 0x22, 0, 2, 0x11, 1, 3, 0x11, 1]);
+	const sof = Buffer.from([
+		0xff, 0xc0, 0x00, 0x11, 0x08, 0, 0, 0, 0, 0x03, 1, 0x22, 0, 2, 0x11, 1, 3, 0x11, 1
+	]);
 	sof.writeUInt16BE(height, 5);
 	sof.writeUInt16BE(width, 7);
 	return Buffer.concat([
 		Buffer.from([0xff, 0xd8]),
 		Buffer.from([0xff, 0xe0, 0x00, 0x10, 0x4a, 0x46, 0x49, 0x46, 0x00, 1, 1, 0, 0, 1, 0, 1, 0, 0]),
 		sof,
-		Buffer.from([0xff, 0xda, 0x00, 0x0c, 0x03, 1, 0, 2, 0x11, 3, 0x11, 0x00, 0x3f, 0x00, 0x12, 0x34]),
+		Buffer.from([
+			0xff, 0xda, 0x00, 0x0c, 0x03, 1, 0, 2, 0x11, 3, 0x11, 0x00, 0x3f, 0x00, 0x12, 0x34
+		]),
 		Buffer.from([0xff, 0xd9])
 	]);
 }

@@ -69,7 +69,10 @@ export const settingsSchema = z.object({
 		.string()
 		.trim()
 		.max(40, 'Keep the phone number to 40 characters.')
-		.refine((v) => v === '' || PHONE.test(v), 'Enter a phone number of digits, spaces and + ( ) - .'),
+		.refine(
+			(v) => v === '' || PHONE.test(v),
+			'Enter a phone number of digits, spaces and + ( ) - .'
+		),
 	email: z
 		.string()
 		.trim()
@@ -153,6 +156,10 @@ export function settingsInput(form: SettingsForm): CompanySettingsInput {
 }
 
 /** A validated tax-rate form as stored values. */
-export function taxRateInput(form: TaxRateForm): { regionCode: string; label: string; rateBp: number } {
+export function taxRateInput(form: TaxRateForm): {
+	regionCode: string;
+	label: string;
+	rateBp: number;
+} {
 	return { regionCode: form.regionCode, label: form.label, rateBp: bp(form.rate) };
 }

@@ -1,7 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { diffPriceBooks, type DiffItem } from './price-book-diff';
 
-const item = (sku: string, listCents: number, costCents = 100, extra: Partial<DiffItem> = {}): DiffItem => ({
+const item = (
+	sku: string,
+	listCents: number,
+	costCents = 100,
+	extra: Partial<DiffItem> = {}
+): DiffItem => ({
 	sku,
 	description: `Item ${sku}`,
 	kind: 'accessory',
@@ -13,7 +18,12 @@ const item = (sku: string, listCents: number, costCents = 100, extra: Partial<Di
 describe('diffPriceBooks', () => {
 	it('sorts items into added, removed, changed and unchanged', () => {
 		const before = [item('A', 1000), item('B', 2000), item('C', 3000), item('D', 4000)];
-		const after = [item('E', 500), item('C', 3150), item('A', 1000), item('b', 2000, 90, { description: 'Item B' })];
+		const after = [
+			item('E', 500),
+			item('C', 3150),
+			item('A', 1000),
+			item('b', 2000, 90, { description: 'Item B' })
+		];
 		const diff = diffPriceBooks(before, after);
 		expect(diff.added.map((i) => i.sku)).toEqual(['E']);
 		expect(diff.removed.map((i) => i.sku)).toEqual(['D']);

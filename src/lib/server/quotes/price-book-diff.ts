@@ -36,10 +36,17 @@ export interface PriceBookDiff {
 }
 
 const bySku = (a: { sku: string }, b: { sku: string }) =>
-	a.sku.toUpperCase() < b.sku.toUpperCase() ? -1 : a.sku.toUpperCase() > b.sku.toUpperCase() ? 1 : 0;
+	a.sku.toUpperCase() < b.sku.toUpperCase()
+		? -1
+		: a.sku.toUpperCase() > b.sku.toUpperCase()
+			? 1
+			: 0;
 
 /** Compare a draft's items (`after`) with the active version's (`before`). */
-export function diffPriceBooks(before: readonly DiffItem[], after: readonly DiffItem[]): PriceBookDiff {
+export function diffPriceBooks(
+	before: readonly DiffItem[],
+	after: readonly DiffItem[]
+): PriceBookDiff {
 	const old = new Map(before.map((item) => [item.sku.toUpperCase(), item]));
 	const added: DiffItem[] = [];
 	const changed: ChangedItem[] = [];

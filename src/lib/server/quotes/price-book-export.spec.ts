@@ -20,8 +20,20 @@ describe('centsToDecimal', () => {
 
 describe('formatPriceBookCsv', () => {
 	const items: ExportItem[] = [
-		{ sku: 'TW-L3-13', description: 'Truck 1.3 t', kind: 'truck', listCents: 2_480_000, costCents: 1_890_000 },
-		{ sku: 'ACC-1', description: 'Adapter, "latching"', kind: 'accessory', listCents: 29, costCents: 10 },
+		{
+			sku: 'TW-L3-13',
+			description: 'Truck 1.3 t',
+			kind: 'truck',
+			listCents: 2_480_000,
+			costCents: 1_890_000
+		},
+		{
+			sku: 'ACC-1',
+			description: 'Adapter, "latching"',
+			kind: 'accessory',
+			listCents: 29,
+			costCents: 10
+		},
 		{ sku: 'FRT', description: ' padded ', kind: 'freight', listCents: 0, costCents: 0 }
 	];
 
@@ -37,6 +49,7 @@ describe('formatPriceBookCsv', () => {
 	it('reads back through the upload parser as the same items', () => {
 		const result = parsePriceBookCsv(formatPriceBookCsv(items.slice(0, 2)));
 		expect(result.ok).toBe(true);
-		if (result.ok) expect(result.items.map(({ row: _row, ...rest }) => rest)).toEqual(items.slice(0, 2));
+		if (result.ok)
+			expect(result.items.map(({ row: _row, ...rest }) => rest)).toEqual(items.slice(0, 2));
 	});
 });

@@ -23,7 +23,8 @@ export interface ExportItem {
 
 /** Cents as decimal dollars, digit by digit: 123450 → "1234.50", 5 → "0.05". */
 export function centsToDecimal(cents: number): string {
-	if (!Number.isSafeInteger(cents) || cents < 0) throw new RangeError(`not an amount in cents: ${cents}`);
+	if (!Number.isSafeInteger(cents) || cents < 0)
+		throw new RangeError(`not an amount in cents: ${cents}`);
 	const text = String(cents).padStart(3, '0');
 	return `${text.slice(0, -2)}.${text.slice(-2)}`;
 }

@@ -109,7 +109,10 @@ export async function getActivePriceBook(): Promise<ActivePriceBook | null> {
  * exactly (letter case included); a SKU the version lacks is simply absent from the map, so the
  * caller decides how to show it. Duplicate SKUs in the argument are fine.
  */
-export async function priceItems(versionId: string, skus: readonly string[]): Promise<Map<string, PriceItem>> {
+export async function priceItems(
+	versionId: string,
+	skus: readonly string[]
+): Promise<Map<string, PriceItem>> {
 	const wanted = [...new Set(skus)];
 	if (wanted.length === 0 || !isUuid(versionId)) return new Map();
 	const rows = await PriceBookItem.findAll({ where: { versionId, sku: { [Op.in]: wanted } } });
@@ -133,7 +136,9 @@ export async function listPriceItems(
 	const q = opts.q?.trim();
 	if (q) {
 		const pattern = `%${escapeLike(q)}%`;
-		where.push({ [Op.or]: [{ sku: { [Op.iLike]: pattern } }, { description: { [Op.iLike]: pattern } }] });
+		where.push({
+			[Op.or]: [{ sku: { [Op.iLike]: pattern } }, { description: { [Op.iLike]: pattern } }]
+		});
 	}
 	if (opts.kind) where.push({ kind: opts.kind });
 	const total = isUuid(versionId) ? await PriceBookItem.count({ where: { [Op.and]: where } }) : 0;
@@ -284,14 +289,19 @@ export async function deleteDraftVersion(id: string): Promise<VersionChange> {
 export async function publishVersion(
 	id: string,
 	publishedBy: string | null
-): Promise<{ ok: true; archivedId: string | null } | { ok: false; reason: VersionRefusal | 'empty' }> {
+): Promise<
+	{ ok: true; archivedId: string | null } | { ok: false; reason: VersionRefusal | 'empty' }
+> {
 	if (!isUuid(id)) return { ok: false, reason: 'not-found' };
 	return sequelize.transaction(async (transaction) => {
 		await sequelize.query('SELECT pg_advisory_xact_lock(:key)', {
 			replacements: { key: PUBLISH_LOCK_KEY },
 			transaction
 		});
-		const version = await PriceBookVersion.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
+		const version = await PriceBookVersion.findByPk(id, {
+			transaction,
+			lock: transaction.LOCK.UPDATE
+		});
 		if (!version) return { ok: false, reason: 'not-found' } as const;
 		if (version.status !== 'draft') return { ok: false, reason: 'published' } as const;
 		if ((await PriceBookItem.count({ where: { versionId: id }, transaction })) === 0)
@@ -300,7 +310,10 @@ export async function publishVersion(
 			{ status: 'archived' },
 			{ where: { status: 'active' }, transaction, returning: true }
 		);
-		await version.update({ status: 'active', publishedAt: new Date(), publishedBy }, { transaction });
+		await version.update(
+			{ status: 'active', publishedAt: new Date(), publishedBy },
+			{ transaction }
+		);
 		return { ok: true, archivedId: archived[0]?.id ?? null } as const;
 	});
 }
@@ -309,7 +322,9 @@ export async function publishVersion(
  * What version `id` changes against the active version: new, removed and changed items.
  * Null when the version does not exist. Against no active version every item is new.
  */
-export async function diffAgainstActive(id: string): Promise<(PriceBookDiff & { activeId: string | null }) | null> {
+export async function diffAgainstActive(
+	id: string
+): Promise<(PriceBookDiff & { activeId: string | null }) | null> {
 	const version = await getPriceBookVersion(id);
 	if (!version) return null;
 	const active = await getActivePriceBook();
@@ -317,7 +332,8 @@ export async function diffAgainstActive(id: string): Promise<(PriceBookDiff & { 
 		active && active.id !== id ? allPriceItems(active.id) : Promise.resolve([]),
 		allPriceItems(id)
 	]);
-	if (active?.id === id) return { added: [], removed: [], changed: [], unchangedCount: after.length, activeId: id };
+	if (active?.id === id)
+		return { added: [], removed: [], changed: [], unchangedCount: after.length, activeId: id };
 	return { ...diffPriceBooks(before, after), activeId: active?.id ?? null };
 }
 
@@ -378,7 +394,10 @@ export async function getCompanySettings(): Promise<CompanySettingsRow> {
 }
 
 /** Saves the settings (everything but the logo). */
-export async function updateCompanySettings(input: CompanySettingsInput, updatedBy: string | null): Promise<void> {
+export async function updateCompanySettings(
+	input: CompanySettingsInput,
+	updatedBy: string | null
+): Promise<void> {
 	const [count] = await CompanySettings.update({ ...input, updatedBy }, { where: { id: 1 } });
 	if (count === 0) await CompanySettings.create({ id: 1, ...input, updatedBy, logoPath: null });
 }
@@ -439,7 +458,11 @@ export async function removeLogo(updatedBy: string | null): Promise<void> {
 }
 
 /** The logo's bytes and type, or null when there is none (or its file is gone). */
-export async function getLogoFile(): Promise<{ bytes: Buffer; mime: 'image/png' | 'image/jpeg'; name: string } | null> {
+export async function getLogoFile(): Promise<{
+	bytes: Buffer;
+	mime: 'image/png' | 'image/jpeg';
+	name: string;
+} | null> {
 	const name = await currentLogoPath();
 	if (!name || !LOGO_NAME.test(name)) return null;
 	try {

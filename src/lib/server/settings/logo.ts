@@ -18,7 +18,13 @@ export const MAX_LOGO_BYTES = 2 * 1024 * 1024;
 export const MAX_LOGO_SIDE_PX = 2500;
 
 export type LogoCheck =
-	| { ok: true; ext: 'png' | 'jpg'; mime: 'image/png' | 'image/jpeg'; widthPx: number; heightPx: number }
+	| {
+			ok: true;
+			ext: 'png' | 'jpg';
+			mime: 'image/png' | 'image/jpeg';
+			widthPx: number;
+			heightPx: number;
+	  }
 	| { ok: false; message: string };
 
 const PNG_SIGNATURE = [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a];
@@ -41,7 +47,8 @@ function ascii(bytes: Uint8Array, at: number, length: number): string {
 }
 
 function sideProblem(width: number, height: number): string | null {
-	if (width < 1 || height < 1) return 'This image has no size; save it again and upload the new file.';
+	if (width < 1 || height < 1)
+		return 'This image has no size; save it again and upload the new file.';
 	if (Math.max(width, height) > MAX_LOGO_SIDE_PX)
 		return `The logo is ${width} × ${height} pixels; make its longest side ${MAX_LOGO_SIDE_PX.toLocaleString('en-US')} pixels or fewer.`;
 	return null;
@@ -57,8 +64,14 @@ const PNG_COLOUR_TYPES: Record<number, { channels: number; depths: number[] }> =
 };
 
 /** bytes of filtered image data a PNG of this header holds (one filter byte per row and pass) */
-function pngDataSize(width: number, height: number, bitsPerPixel: number, interlaced: boolean): number {
-	const rows = (w: number, h: number) => (w > 0 && h > 0 ? h * (1 + Math.ceil((w * bitsPerPixel) / 8)) : 0);
+function pngDataSize(
+	width: number,
+	height: number,
+	bitsPerPixel: number,
+	interlaced: boolean
+): number {
+	const rows = (w: number, h: number) =>
+		w > 0 && h > 0 ? h * (1 + Math.ceil((w * bitsPerPixel) / 8)) : 0;
 	if (!interlaced) return rows(width, height);
 	const passes = [
 		[0, 0, 8, 8],
@@ -70,7 +83,8 @@ function pngDataSize(width: number, height: number, bitsPerPixel: number, interl
 		[0, 1, 1, 2]
 	];
 	return passes.reduce(
-		(sum, [x0, y0, dx, dy]) => sum + rows(Math.ceil((width - x0) / dx), Math.ceil((height - y0) / dy)),
+		(sum, [x0, y0, dx, dy]) =>
+			sum + rows(Math.ceil((width - x0) / dx), Math.ceil((height - y0) / dy)),
 		0
 	);
 }
@@ -81,7 +95,13 @@ function inspectPng(bytes: Uint8Array): LogoCheck {
 		message: `This PNG is damaged (${why}); save it again and upload the new file.`
 	});
 	let at = 8;
-	let header: { width: number; height: number; depth: number; colourType: number; interlaced: boolean } | null = null;
+	let header: {
+		width: number;
+		height: number;
+		depth: number;
+		colourType: number;
+		interlaced: boolean;
+	} | null = null;
 	let palette = false;
 	const data: Uint8Array[] = [];
 	let ended = false;
@@ -98,9 +118,21 @@ function inspectPng(bytes: Uint8Array): LogoCheck {
 			if (header || length !== 13) return damaged('its header is malformed');
 			const colourType = body[9];
 			const spec = PNG_COLOUR_TYPES[colourType];
-			if (!spec || !spec.depths.includes(body[8]) || body[10] !== 0 || body[11] !== 0 || body[12] > 1)
+			if (
+				!spec ||
+				!spec.depths.includes(body[8]) ||
+				body[10] !== 0 ||
+				body[11] !== 0 ||
+				body[12] > 1
+			)
 				return damaged('its header names an unknown format');
-			header = { width: u32(body, 0), height: u32(body, 4), depth: body[8], colourType, interlaced: body[12] === 1 };
+			header = {
+				width: u32(body, 0),
+				height: u32(body, 4),
+				depth: body[8],
+				colourType,
+				interlaced: body[12] === 1
+			};
 			const side = sideProblem(header.width, header.height);
 			if (side) return { ok: false, message: side };
 		} else if (type === 'PLTE') palette = true;
@@ -123,7 +155,13 @@ function inspectPng(bytes: Uint8Array): LogoCheck {
 	} catch {
 		return damaged('its image data does not unpack');
 	}
-	return { ok: true, ext: 'png', mime: 'image/png', widthPx: header.width, heightPx: header.height };
+	return {
+		ok: true,
+		ext: 'png',
+		mime: 'image/png',
+		widthPx: header.width,
+		heightPx: header.height
+	};
 }
 
 /** start-of-frame markers (all but DHT C4, JPG C8 and DAC CC), which carry the image's size */
@@ -156,7 +194,8 @@ function inspectJpeg(bytes: Uint8Array): LogoCheck {
 			// the end-of-image marker, allowing padding zeros after it
 			let end = bytes.length;
 			while (end > 0 && bytes[end - 1] === 0x00) end--;
-			if (end < 2 || bytes[end - 2] !== 0xff || bytes[end - 1] !== 0xd9) return damaged('it is cut short');
+			if (end < 2 || bytes[end - 2] !== 0xff || bytes[end - 1] !== 0xd9)
+				return damaged('it is cut short');
 			return { ok: true, ext: 'jpg', mime: 'image/jpeg', widthPx: width, heightPx: height };
 		}
 		at += length;
@@ -166,7 +205,8 @@ function inspectJpeg(bytes: Uint8Array): LogoCheck {
 
 /** Whether these bytes are a usable logo: a sound PNG or JPEG within the size limits. */
 export function inspectLogo(bytes: Uint8Array): LogoCheck {
-	if (bytes.length === 0) return { ok: false, message: 'Choose a logo file to upload; this one is empty.' };
+	if (bytes.length === 0)
+		return { ok: false, message: 'Choose a logo file to upload; this one is empty.' };
 	if (bytes.length > MAX_LOGO_BYTES)
 		return {
 			ok: false,

@@ -50,7 +50,10 @@ interface UploadFailure {
 	problemCount: number;
 }
 
-function uploadFailure(status: number, failure: Partial<UploadFailure> & Pick<UploadFailure, 'values'>) {
+function uploadFailure(
+	status: number,
+	failure: Partial<UploadFailure> & Pick<UploadFailure, 'values'>
+) {
 	const problems = failure.problems ?? [];
 	return fail(status, {
 		upload: {
@@ -70,7 +73,11 @@ function text(value: FormDataEntryValue | null): string {
 /** a file name for display only: no paths, no control characters, not too long */
 function shownName(name: string): string {
 	// eslint-disable-next-line no-control-regex
-	const base = name.split(/[\\/]/).pop()?.replace(/[\u0000-\u001f\u007f-\u009f]/g, '') ?? '';
+	const base =
+		name
+			.split(/[\\/]/)
+			.pop()
+			?.replace(/[\u0000-\u001f\u007f-\u009f]/g, '') ?? '';
 	return base.length > 80 ? `${base.slice(0, 77)}…` : base;
 }
 
@@ -89,10 +96,15 @@ export const actions: Actions = {
 		if (!form) {
 			return uploadFailure(400, {
 				...empty,
-				fieldErrors: { file: 'The upload did not arrive as a form with a file; choose the CSV file and try again.' }
+				fieldErrors: {
+					file: 'The upload did not arrive as a form with a file; choose the CSV file and try again.'
+				}
 			});
 		}
-		const values = { label: text(form.get('label')).slice(0, 500), effectiveDate: text(form.get('effectiveDate')).slice(0, 50) };
+		const values = {
+			label: text(form.get('label')).slice(0, 500),
+			effectiveDate: text(form.get('effectiveDate')).slice(0, 50)
+		};
 		const fieldErrors: UploadFailure['fieldErrors'] = {};
 		const parsed = versionSchema.safeParse(values);
 		if (!parsed.success) {
@@ -109,7 +121,9 @@ export const actions: Actions = {
 		let items: ReturnType<typeof parsePriceBookCsv> | null = null;
 		if (!(file instanceof File) || file.size === 0) {
 			fieldErrors.file =
-				file instanceof File && file.name ? `${fileName} is empty; choose the CSV file with the prices.` : 'Choose the CSV file to upload.';
+				file instanceof File && file.name
+					? `${fileName} is empty; choose the CSV file with the prices.`
+					: 'Choose the CSV file to upload.';
 		} else if (file.size > MAX_PRICE_BOOK_BYTES) {
 			tooLarge = true;
 			fieldErrors.file = `${fileName ?? 'The file'} is ${megabytes(file.size)}; a price-book file may be at most 2 MB.`;
@@ -126,7 +140,12 @@ export const actions: Actions = {
 			}
 		}
 
-		if (Object.keys(fieldErrors).length > 0 || problems.length > 0 || !items?.ok || !parsed.success) {
+		if (
+			Object.keys(fieldErrors).length > 0 ||
+			problems.length > 0 ||
+			!items?.ok ||
+			!parsed.success
+		) {
 			return uploadFailure(tooLarge ? 413 : 400, { values, fileName, fieldErrors, problems });
 		}
 		const id = await createDraftVersion({

@@ -29,7 +29,6 @@ import type { Actions, PageServerLoad } from './$types';
 const settingsAdapter = zod4(settingsSchema);
 const taxAdapter = zod4(taxRateSchema);
 
-
 function formValues(s: Omit<CompanySettingsRow, 'logoPath' | 'updatedAt'>): SettingsForm {
 	return {
 		dealerName: s.dealerName,
@@ -90,14 +89,25 @@ export const actions: Actions = {
 		if (!form.valid) return fail(400, { taxForm: form });
 		const result = await addTaxRate(taxRateInput(form.data));
 		if (!result.ok)
-			return setError(form, 'regionCode', `${form.data.regionCode} has a rate already; change that row instead.`, { status: 409 });
-		return message(form, `Added ${form.data.regionCode} at ${form.data.rate.replace(/\s*%$/, '')} %.`);
+			return setError(
+				form,
+				'regionCode',
+				`${form.data.regionCode} has a rate already; change that row instead.`,
+				{ status: 409 }
+			);
+		return message(
+			form,
+			`Added ${form.data.regionCode} at ${form.data.rate.replace(/\s*%$/, '')} %.`
+		);
 	},
 
 	updateTaxRate: async (event) => {
 		requirePermission(event, 'admin:settings');
 		const raw = await readForm(event.request);
-		if (!raw) return fail(400, { taxError: { id: null, message: 'The form did not arrive whole; try again.' } });
+		if (!raw)
+			return fail(400, {
+				taxError: { id: null, message: 'The form did not arrive whole; try again.' }
+			});
 		const values = {
 			id: String(raw.get('id') ?? ''),
 			regionCode: String(raw.get('regionCode') ?? ''),
@@ -106,12 +116,19 @@ export const actions: Actions = {
 		};
 		const parsed = taxRateUpdateSchema.safeParse(values);
 		if (!parsed.success) {
-			return fail(400, { taxError: { id: values.id, message: parsed.error.issues[0]?.message ?? 'Check the row.' } });
+			return fail(400, {
+				taxError: { id: values.id, message: parsed.error.issues[0]?.message ?? 'Check the row.' }
+			});
 		}
 		const result = await updateTaxRate(parsed.data.id, taxRateInput(parsed.data));
 		if (!result.ok) {
 			return result.reason === 'duplicate'
-				? fail(409, { taxError: { id: values.id, message: `${parsed.data.regionCode} has a rate already; change that row instead.` } })
+				? fail(409, {
+						taxError: {
+							id: values.id,
+							message: `${parsed.data.regionCode} has a rate already; change that row instead.`
+						}
+					})
 				: fail(404, { taxError: { id: values.id, message: 'That rate was removed meanwhile.' } });
 		}
 		return { taxSaved: parsed.data.id };
@@ -121,7 +138,8 @@ export const actions: Actions = {
 		requirePermission(event, 'admin:settings');
 		const raw = await readForm(event.request);
 		const id = String(raw?.get('id') ?? '');
-		if (!(await removeTaxRate(id))) return fail(404, { taxError: { id, message: 'That rate was removed already.' } });
+		if (!(await removeTaxRate(id)))
+			return fail(404, { taxError: { id, message: 'That rate was removed already.' } });
 		return { taxRemoved: true };
 	},
 
@@ -134,7 +152,9 @@ export const actions: Actions = {
 			return fail(400, { logoError: 'Choose a PNG or JPEG file for the logo.' });
 		}
 		if (file.size > MAX_LOGO_BYTES) {
-			return fail(413, { logoError: `The logo file is ${megabytes(file.size)}; the limit is 2 MB. Export it smaller and try again.` });
+			return fail(413, {
+				logoError: `The logo file is ${megabytes(file.size)}; the limit is 2 MB. Export it smaller and try again.`
+			});
 		}
 		const result = await setLogo(new Uint8Array(await file.arrayBuffer()), user.id);
 		if (!result.ok) return fail(400, { logoError: result.message });

@@ -55,14 +55,19 @@ export const load: PageServerLoad = async (event) => {
 	};
 };
 
-const UNREADABLE = { versionError: 'The form did not arrive whole; reload the page and try again.' };
+const UNREADABLE = {
+	versionError: 'The form did not arrive whole; reload the page and try again.'
+};
 
 const PUBLISHED =
 	'This version is published, and published versions cannot be changed or deleted: quotes were priced on it. Upload a new CSV to make a draft instead.';
 
 function refused(reason: VersionRefusal | 'empty') {
 	if (reason === 'not-found') error(404, 'There is no such price-book version.');
-	if (reason === 'empty') return fail(400, { versionError: 'This draft has no items; upload a CSV with prices instead.' });
+	if (reason === 'empty')
+		return fail(400, {
+			versionError: 'This draft has no items; upload a CSV with prices instead.'
+		});
 	return fail(409, { versionError: PUBLISHED });
 }
 
@@ -93,7 +98,10 @@ export const actions: Actions = {
 		const form = await readForm(event.request);
 		if (!form) return fail(400, UNREADABLE);
 		if (form.get('confirm') !== 'publish') {
-			return fail(400, { versionError: 'Confirm that you want to publish: open “Publish…” and press the confirm button.' });
+			return fail(400, {
+				versionError:
+					'Confirm that you want to publish: open “Publish…” and press the confirm button.'
+			});
 		}
 		const result = await publishVersion(event.params.id, user.id);
 		if (!result.ok) return refused(result.reason);
@@ -106,7 +114,10 @@ export const actions: Actions = {
 		const form = await readForm(event.request);
 		if (!form) return fail(400, UNREADABLE);
 		if (form.get('confirm') !== 'delete') {
-			return fail(400, { versionError: 'Confirm that you want to delete the draft: open “Delete…” and press the confirm button.' });
+			return fail(400, {
+				versionError:
+					'Confirm that you want to delete the draft: open “Delete…” and press the confirm button.'
+			});
 		}
 		const result = await deleteDraftVersion(event.params.id);
 		if (!result.ok) return refused(result.reason);
