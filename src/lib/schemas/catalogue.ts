@@ -17,9 +17,12 @@
 import { z } from 'zod';
 import { formatMoney, parseMoney } from '../money';
 import {
+	KG_PER_LB,
+	MM_PER_IN,
 	formatInput,
 	formatLength,
 	formatMass,
+	formatNumber,
 	parseQuantity,
 	type QuantityKind,
 	type UnitSystem
@@ -1157,4 +1160,18 @@ export function equipmentSpecSummary(
 			break;
 	}
 	return parts.join(' · ');
+}
+
+/** "1 050 × 860 × 640 mm (41.3 × 33.9 × 25.2 in)"; imperial first for imperial users. */
+export function formatDimensions(mm: readonly number[], system: UnitSystem): string {
+	const metric = mm.map((v) => formatNumber(v, 0)).join(' × ') + ' mm';
+	const imperial = mm.map((v) => formatNumber(v / MM_PER_IN, 1, ',')).join(' × ') + ' in';
+	return system === 'imperial' ? `${imperial} (${metric})` : `${metric} (${imperial})`;
+}
+
+/** "900–1 200 kg (1,984–2,646 lb)"; imperial first for imperial users. */
+export function formatMassRange(minKg: number, maxKg: number, system: UnitSystem): string {
+	const metric = `${formatNumber(minKg, 0)}–${formatNumber(maxKg, 0)} kg`;
+	const imperial = `${formatNumber(minKg / KG_PER_LB, 0, ',')}–${formatNumber(maxKg / KG_PER_LB, 0, ',')} lb`;
+	return system === 'imperial' ? `${imperial} (${metric})` : `${metric} (${imperial})`;
 }
