@@ -134,6 +134,23 @@ describe('truck model form', () => {
 		expect(errors.batteryIds).toEqual(['Choose batteries from the list.']);
 	});
 
+	it('still checks the other fields when one cannot be read, but skips cross-field rules then', () => {
+		const errors = truckErrors({
+			...truckForm(),
+			compartmentWidth: 'wide',
+			compartmentLength: '6000 mm',
+			compartmentHeight: '',
+			compartmentHeightWithRollerBed: '2000 mm'
+		});
+		expect(errors.compartmentWidth[0]).toMatch(/does not start with a number/);
+		// LIMITS.lengthMm = 5 000 mm
+		expect(errors.compartmentLength).toEqual([
+			'The compartment length must be at most 5 000 mm (196.9 in).'
+		]);
+		// the height is unread, so "height with roller bed ≤ height" is not judged against a stand-in
+		expect(errors.compartmentHeightWithRollerBed).toBeUndefined();
+	});
+
 	it('refuses codes with spaces or shaped like an id, through the form schema', () => {
 		for (const code of ['TW 1', '', '0b9c4d8e-1111-4222-8333-944455556666']) {
 			const r = truckFormSchema.safeParse({ ...truckForm(), code });
@@ -175,6 +192,18 @@ describe('battery form', () => {
 		const r = readBatteryForm({ ...base('metric'), weight: '2,900 lb' });
 		if (!r.ok) throw new Error(JSON.stringify(r.errors));
 		expect(r.value.spec.weightKg).toBe(1315.4);
+	});
+
+	it('reports a bound on one field while another cannot be read', () => {
+		const r = readBatteryForm({ ...base('metric'), capacityAh: '12,5', weight: '99 t' });
+		expect(r.ok).toBe(false);
+		if (!r.ok) {
+			expect(r.errors.capacityAh[0]).toMatch(/point for decimals \(12\.5\)/);
+			// LIMITS.batteryKg = 10 000 kg = 22 046 lb
+			expect(r.errors.weight).toEqual([
+				'The battery weight must be at most 10 000 kg (22,046 lb).'
+			]);
+		}
 	});
 
 	it('refuses an unknown chemistry and a zero voltage at once', () => {

@@ -205,6 +205,33 @@ function report(ctx: z.RefinementCtx, errors: Errors) {
 	}
 }
 
+/** A stand-in for a value that could not be read, so the spec schema can still check the rest. */
+const UNREAD = 1;
+
+/**
+ * Checks a spec built from the form with the given schema and puts each issue on its flat field.
+ * `unread` names the fields whose text could not be read (their spec value is a stand-in): their
+ * issues are dropped, and so are cross-field issues, which would compare against a stand-in.
+ */
+function checkSpec<T>(
+	schema: z.ZodType<T>,
+	spec: Record<string, unknown>,
+	unread: ReadonlySet<string>,
+	nameFor: (path: string) => string,
+	infoFor: (name: string) => FieldInfo | undefined,
+	errors: Errors,
+	system: UnitSystem
+): T | null {
+	const r = schema.safeParse(spec);
+	if (r.success) return unread.size === 0 ? r.data : null;
+	for (const issue of r.error.issues) {
+		const name = nameFor(issue.path.map(String).join('.'));
+		if (unread.has(name) || (issue.code === 'custom' && unread.size > 0)) continue;
+		addError(errors, name, issueMessage(infoFor(name), issue, system));
+	}
+	return null;
+}
+
 export type ReadResult<T> = { ok: true; value: T } | { ok: false; errors: Errors };
 
 // ---------------------------------------------------------------------------------------------
@@ -431,10 +458,14 @@ export function readTruckForm(form: TruckForm): ReadResult<TruckModelInput> {
 	const system = form.units;
 	const errors: Errors = {};
 	const spec: Record<string, unknown> = {};
+	const unread = new Set<string>();
 	for (const field of TRUCK_SPEC_FIELDS) {
 		const r = readField(field, form[field.name], system);
-		if (r.ok) setPath(spec, field.path, r.value);
-		else addError(errors, field.name, r.message);
+		setPath(spec, field.path, r.ok ? r.value : UNREAD);
+		if (!r.ok) {
+			addError(errors, field.name, r.message);
+			unread.add(field.name);
+		}
 	}
 	let capacityKg = 0;
 	const cap = readField(CAPACITY_FIELD, form.capacity, system);
@@ -458,17 +489,15 @@ export function readTruckForm(form: TruckForm): ReadResult<TruckModelInput> {
 		addError(errors, 'batteryIds', 'Choose batteries from the list.');
 	}
 
-	let parsedSpec: TruckSpec | null = null;
-	if (Object.keys(errors).every((k) => !TRUCK_SPEC_FIELDS.some((f) => f.name === k))) {
-		const r = catalogueTruckSpecSchema.safeParse(spec);
-		if (r.success) parsedSpec = r.data;
-		else {
-			for (const issue of r.error.issues) {
-				const field = TRUCK_BY_PATH.get(issue.path.map(String).join('.'));
-				addError(errors, field?.name ?? 'voltage', issueMessage(field, issue, system));
-			}
-		}
-	}
+	const parsedSpec = checkSpec(
+		catalogueTruckSpecSchema,
+		spec,
+		unread,
+		(path) => TRUCK_BY_PATH.get(path)?.name ?? 'voltage',
+		(name) => TRUCK_SPEC_FIELDS.find((f) => f.name === name),
+		errors,
+		system
+	);
 	if (Object.keys(errors).length > 0 || !parsedSpec || !price.ok || !cost.ok) {
 		return { ok: false, errors };
 	}
@@ -574,7 +603,6 @@ export const BATTERY_SPEC_FIELDS = [
 
 export type BatterySpecFieldName = (typeof BATTERY_SPEC_FIELDS)[number]['name'];
 const BATTERY_BY_PATH = pathIndex(BATTERY_SPEC_FIELDS);
-const BATTERY_SPEC_NAMES = new Set<string>(BATTERY_SPEC_FIELDS.map((f) => f.name));
 
 export const CHEMISTRY_LABELS: Readonly<Record<z.infer<typeof chemistrySchema>, string>> = {
 	'lead-acid': 'Lead-acid',
@@ -611,32 +639,33 @@ export function readBatteryForm(form: BatteryForm): ReadResult<BatteryInput> {
 	const system = form.units;
 	const errors: Errors = {};
 	const spec: Record<string, unknown> = { chemistry: form.chemistry };
+	const unread = new Set<string>();
 	for (const field of BATTERY_SPEC_FIELDS) {
 		const r = readField(field, form[field.name], system);
-		if (r.ok) setPath(spec, field.path, r.value);
-		else addError(errors, field.name, r.message);
+		setPath(spec, field.path, r.ok ? r.value : UNREAD);
+		if (!r.ok) {
+			addError(errors, field.name, r.message);
+			unread.add(field.name);
+		}
 	}
 	if (!chemistrySchema.safeParse(form.chemistry).success) {
 		addError(errors, 'chemistry', 'Choose lead-acid or lithium-ion.');
+		// said here in plain words; the schema's own message is dropped
+		unread.add('chemistry');
 	}
 	const price = readMoney(form.price, 'the list price');
 	if (!price.ok) addError(errors, 'price', price.message);
 	const cost = readMoney(form.cost, 'the cost');
 	if (!cost.ok) addError(errors, 'cost', cost.message);
-	let parsedSpec: BatterySpec | null = null;
-	if (!Object.keys(errors).some((k) => BATTERY_SPEC_NAMES.has(k))) {
-		const r = batterySpecSchema.safeParse(spec);
-		if (r.success) parsedSpec = r.data;
-		else {
-			for (const issue of r.error.issues) {
-				const key = issue.path.map(String).join('.');
-				// a bad chemistry is already reported above in plain words
-				if (key === 'chemistry') continue;
-				const field = BATTERY_BY_PATH.get(key);
-				addError(errors, field?.name ?? 'voltage', issueMessage(field, issue, system));
-			}
-		}
-	}
+	const parsedSpec = checkSpec(
+		batterySpecSchema,
+		spec,
+		unread,
+		(path) => (path === 'chemistry' ? 'chemistry' : (BATTERY_BY_PATH.get(path)?.name ?? 'voltage')),
+		(name) => BATTERY_SPEC_FIELDS.find((f) => f.name === name),
+		errors,
+		system
+	);
 	if (Object.keys(errors).length > 0 || !parsedSpec || !price.ok || !cost.ok)
 		return { ok: false, errors };
 	return {
@@ -946,6 +975,12 @@ export function readEquipmentForm(form: EquipmentForm): ReadResult<EquipmentInpu
 	}
 	const kind = form.kind;
 	const values: Partial<Record<EquipmentQuantityField, number>> = {};
+	const unread = new Set<string>();
+	/** a choice that is not on the list: said in plain words, the schema's own message dropped */
+	const refuse = (name: string, message: string) => {
+		addError(errors, name, message);
+		unread.add(name);
+	};
 	const adjustable = form.adjustable;
 	for (const part of EQUIPMENT_FORM_PARTS[kind]) {
 		if (!('field' in part)) continue;
@@ -959,8 +994,11 @@ export function readEquipmentForm(form: EquipmentForm): ReadResult<EquipmentInpu
 		const text = form[part.field];
 		if (!part.required && text.trim() === '') continue;
 		const r = readField(info, text, system);
-		if (r.ok) values[part.field] = r.value;
-		else addError(errors, part.field, r.message);
+		values[part.field] = r.ok ? r.value : UNREAD;
+		if (!r.ok) {
+			addError(errors, part.field, r.message);
+			unread.add(part.field);
+		}
 	}
 
 	let spec: Record<string, unknown>;
@@ -979,7 +1017,7 @@ export function readEquipmentForm(form: EquipmentForm): ReadResult<EquipmentInpu
 			break;
 		case 'roller-stand':
 			if (form.standKind !== 'stand' && form.standKind !== 'changer') {
-				addError(errors, 'standKind', 'Choose a roller stand or a battery changer.');
+				refuse('standKind', 'Choose a roller stand or a battery changer.');
 			}
 			spec = {
 				rollerTopMm: values.rollerTop,
@@ -1001,12 +1039,12 @@ export function readEquipmentForm(form: EquipmentForm): ReadResult<EquipmentInpu
 			break;
 		case 'charger':
 			if (!chemistrySchema.safeParse(form.chemistry).success)
-				addError(errors, 'chemistry', 'Choose lead-acid or lithium-ion.');
+				refuse('chemistry', 'Choose lead-acid or lithium-ion.');
 			if (!chargingMethodSchema.safeParse(form.chargingKind).success) {
-				addError(errors, 'chargingKind', 'Choose conventional, opportunity or fast charging.');
+				refuse('chargingKind', 'Choose conventional, opportunity or fast charging.');
 			}
 			if (form.profile !== '' && !chargerProfileSchema.safeParse(form.profile).success) {
-				addError(errors, 'profile', 'Choose a charging characteristic from the list.');
+				refuse('profile', 'Choose a charging characteristic from the list.');
 			}
 			spec = {
 				chemistry: form.chemistry,
@@ -1020,26 +1058,20 @@ export function readEquipmentForm(form: EquipmentForm): ReadResult<EquipmentInpu
 	}
 	for (const key of Object.keys(spec)) if (spec[key] === undefined) delete spec[key];
 
-	let parsedSpec: EquipmentSpecs[EditableEquipmentKind] | null = null;
-	if (Object.keys(errors).every((k) => k === 'price' || k === 'cost')) {
-		const r = (
-			equipmentSpecSchemas[kind] as z.ZodType<EquipmentSpecs[EditableEquipmentKind]>
-		).safeParse(spec);
-		if (r.success) parsedSpec = r.data;
-		else {
-			for (const issue of r.error.issues) {
-				const key = issue.path.map(String).join('.');
-				const name =
-					kind === 'roller-stand' && key === 'kind'
-						? 'standKind'
-						: kind === 'charger' && key === 'kind'
-							? 'chargingKind'
-							: (EQUIPMENT_PATH_FIELD[key] ?? 'kind');
-				const info = (EQUIPMENT_SPEC_FIELDS as Record<string, FieldInfo>)[name];
-				addError(errors, name, issueMessage(info, issue, system));
-			}
-		}
-	}
+	const parsedSpec = checkSpec(
+		equipmentSpecSchemas[kind] as z.ZodType<EquipmentSpecs[EditableEquipmentKind]>,
+		spec,
+		unread,
+		(path) =>
+			path === 'kind'
+				? kind === 'charger'
+					? 'chargingKind'
+					: 'standKind'
+				: (EQUIPMENT_PATH_FIELD[path] ?? 'kind'),
+		(name) => (EQUIPMENT_SPEC_FIELDS as Record<string, FieldInfo>)[name],
+		errors,
+		system
+	);
 	if (Object.keys(errors).length > 0 || !parsedSpec || !price.ok || !cost.ok)
 		return { ok: false, errors };
 	return {
@@ -1133,10 +1165,7 @@ export function equipmentSpecSummary(
 		case 'roller-stand': {
 			len('rollers at', n('rollerTopMm'));
 			const r = spec.adjustRangeMm as { minMm: number; maxMm: number } | null;
-			if (r)
-				parts.push(
-					`adjusts ${formatLength(r.minMm, system, { both: false })}–${formatLength(r.maxMm, system)}`
-				);
+			if (r) parts.push(`adjusts ${formatLengthRange(r.minMm, r.maxMm, system)}`);
 			mass('carries', n('capacityKg'));
 			if (spec.driveAlongside === true) parts.push('drives alongside');
 			break;
@@ -1173,5 +1202,12 @@ export function formatDimensions(mm: readonly number[], system: UnitSystem): str
 export function formatMassRange(minKg: number, maxKg: number, system: UnitSystem): string {
 	const metric = `${formatNumber(minKg, 0)}–${formatNumber(maxKg, 0)} kg`;
 	const imperial = `${formatNumber(minKg / KG_PER_LB, 0, ',')}–${formatNumber(maxKg / KG_PER_LB, 0, ',')} lb`;
+	return system === 'imperial' ? `${imperial} (${metric})` : `${metric} (${imperial})`;
+}
+
+/** "180–260 mm (7.1–10.2 in)"; imperial first for imperial users. */
+export function formatLengthRange(minMm: number, maxMm: number, system: UnitSystem): string {
+	const metric = `${formatNumber(minMm, 0)}–${formatNumber(maxMm, 0)} mm`;
+	const imperial = `${formatNumber(minMm / MM_PER_IN, 1, ',')}–${formatNumber(maxMm / MM_PER_IN, 1, ',')} in`;
 	return system === 'imperial' ? `${imperial} (${metric})` : `${metric} (${imperial})`;
 }
