@@ -1191,18 +1191,33 @@ export function equipmentSpecSummary(
 	return parts.join(' · ');
 }
 
-/** "1 050 × 860 × 640 mm (41.3 × 33.9 × 25.2 in)"; imperial first for imperial users. */
-export function formatDimensions(mm: readonly number[], system: UnitSystem): string {
+/**
+ * Dimensions in the user's system and in the other one:
+ * ["1 050 × 860 × 640 mm", "41.3 × 33.9 × 25.2 in"], imperial first for imperial users.
+ */
+export function dimensionParts(mm: readonly number[], system: UnitSystem): [string, string] {
 	const metric = mm.map((v) => formatNumber(v, 0)).join(' × ') + ' mm';
 	const imperial = mm.map((v) => formatNumber(v / MM_PER_IN, 1, ',')).join(' × ') + ' in';
-	return system === 'imperial' ? `${imperial} (${metric})` : `${metric} (${imperial})`;
+	return system === 'imperial' ? [imperial, metric] : [metric, imperial];
+}
+
+/** "1 050 × 860 × 640 mm (41.3 × 33.9 × 25.2 in)"; imperial first for imperial users. */
+export function formatDimensions(mm: readonly number[], system: UnitSystem): string {
+	const [first, other] = dimensionParts(mm, system);
+	return `${first} (${other})`;
+}
+
+/** A mass range in the user's system and the other: ["900–1 200 kg", "1,984–2,646 lb"]. */
+export function massRangeParts(minKg: number, maxKg: number, system: UnitSystem): [string, string] {
+	const metric = `${formatNumber(minKg, 0)}–${formatNumber(maxKg, 0)} kg`;
+	const imperial = `${formatNumber(minKg / KG_PER_LB, 0, ',')}–${formatNumber(maxKg / KG_PER_LB, 0, ',')} lb`;
+	return system === 'imperial' ? [imperial, metric] : [metric, imperial];
 }
 
 /** "900–1 200 kg (1,984–2,646 lb)"; imperial first for imperial users. */
 export function formatMassRange(minKg: number, maxKg: number, system: UnitSystem): string {
-	const metric = `${formatNumber(minKg, 0)}–${formatNumber(maxKg, 0)} kg`;
-	const imperial = `${formatNumber(minKg / KG_PER_LB, 0, ',')}–${formatNumber(maxKg / KG_PER_LB, 0, ',')} lb`;
-	return system === 'imperial' ? `${imperial} (${metric})` : `${metric} (${imperial})`;
+	const [first, other] = massRangeParts(minKg, maxKg, system);
+	return `${first} (${other})`;
 }
 
 /** "180–260 mm (7.1–10.2 in)"; imperial first for imperial users. */

@@ -19,7 +19,11 @@ export interface EntryWords {
 
 export const TRUCK_WORDS: EntryWords = { noun: 'truck model', codeField: 'code', codeNoun: 'code' };
 export const BATTERY_WORDS: EntryWords = { noun: 'battery', codeField: 'code', codeNoun: 'code' };
-export const EQUIPMENT_WORDS: EntryWords = { noun: 'equipment item', codeField: 'sku', codeNoun: 'SKU' };
+export const EQUIPMENT_WORDS: EntryWords = {
+	noun: 'equipment item',
+	codeField: 'sku',
+	codeNoun: 'SKU'
+};
 
 /** A refused save as field errors on the form (400), or a form-level error (404) when it is gone. */
 export function refusedSave<T extends Record<string, unknown>>(
@@ -48,14 +52,23 @@ export function refusedSave<T extends Record<string, unknown>>(
 				`${outcome.codes.join(', ')} ${outcome.codes.length === 1 ? 'has' : 'have'} a different voltage from this truck; a truck takes only batteries of its own voltage.`
 			);
 		case 'not-found':
-			return setError(f, '', `This ${words.noun} is no longer in the catalogue; nothing was saved.`, {
-				status: 404
-			});
+			return setError(
+				f,
+				'',
+				`This ${words.noun} is no longer in the catalogue; nothing was saved.`,
+				{
+					status: 404
+				}
+			);
 	}
 }
 
 /** A refused delete: 404 when it is gone, 409 with a message suggesting Retire when it is in use. */
-export function refusedDelete(outcome: Exclude<CatalogueDeleteOutcome, { ok: true }>, code: string, words: EntryWords) {
+export function refusedDelete(
+	outcome: Exclude<CatalogueDeleteOutcome, { ok: true }>,
+	code: string,
+	words: EntryWords
+) {
 	if (outcome.reason === 'not-found') {
 		return fail(404, { deleteError: `This ${words.noun} is no longer in the catalogue.` });
 	}

@@ -203,9 +203,12 @@ async function codeTaken(
 
 /** Does the surveys table exist yet? (It arrives with the survey wizard.) */
 async function surveysTablePresent(transaction?: Transaction): Promise<boolean> {
-	const [rows] = await sequelize.query(`SELECT to_regclass('public.surveys') IS NOT NULL AS present`, {
-		transaction
-	});
+	const [rows] = await sequelize.query(
+		`SELECT to_regclass('public.surveys') IS NOT NULL AS present`,
+		{
+			transaction
+		}
+	);
 	return (rows as { present: boolean }[])[0]?.present === true;
 }
 
@@ -213,7 +216,10 @@ async function surveysTablePresent(transaction?: Transaction): Promise<boolean> 
  * How many surveys refer to a truck model or battery, by id or by code, as their fleet's
  * `truckModelId` or `batteryId`. 0 while the surveys table does not exist.
  */
-export async function surveysReferencingModel(refs: string[], transaction?: Transaction): Promise<number> {
+export async function surveysReferencingModel(
+	refs: string[],
+	transaction?: Transaction
+): Promise<number> {
 	if (refs.length === 0 || !(await surveysTablePresent(transaction))) return 0;
 	const [rows] = await sequelize.query(
 		`SELECT count(*)::int AS n FROM surveys
@@ -227,7 +233,10 @@ export async function surveysReferencingModel(refs: string[], transaction?: Tran
  * How many surveys carry an equipment SKU anywhere in their data (a chosen setup's bill of
  * materials, say). 0 while the surveys table does not exist.
  */
-export async function surveysReferencingSku(sku: string, transaction?: Transaction): Promise<number> {
+export async function surveysReferencingSku(
+	sku: string,
+	transaction?: Transaction
+): Promise<number> {
 	if (!(await surveysTablePresent(transaction))) return 0;
 	const [rows] = await sequelize.query(
 		`SELECT count(*)::int AS n FROM surveys
@@ -239,7 +248,11 @@ export async function surveysReferencingSku(sku: string, transaction?: Transacti
 
 /** Families in use by truck models (retired ones too), A–Z; for the family picker and filter. */
 export async function listTruckFamilies(): Promise<string[]> {
-	const rows = await TruckModel.findAll({ attributes: ['family'], group: ['family'], order: [['family', 'ASC']] });
+	const rows = await TruckModel.findAll({
+		attributes: ['family'],
+		group: ['family'],
+		order: [['family', 'ASC']]
+	});
 	return rows.map((r) => r.family);
 }
 
@@ -248,46 +261,58 @@ async function checkCompatibleBatteries(
 	transaction: Transaction
 ): Promise<CatalogueSaveOutcome<never> | null> {
 	if (input.batteryIds.length === 0) return null;
-	const batteries = await Battery.findAll({ where: { id: { [Op.in]: input.batteryIds } }, transaction });
-	if (batteries.length !== input.batteryIds.length) return { ok: false, reason: 'unknown-batteries' };
-	const wrong = batteries.filter((b) => (b.spec as { voltage?: number }).voltage !== input.spec.voltage);
-	if (wrong.length > 0) return { ok: false, reason: 'battery-voltage', codes: wrong.map((b) => b.code).sort() };
+	const batteries = await Battery.findAll({
+		where: { id: { [Op.in]: input.batteryIds } },
+		transaction
+	});
+	if (batteries.length !== input.batteryIds.length)
+		return { ok: false, reason: 'unknown-batteries' };
+	const wrong = batteries.filter(
+		(b) => (b.spec as { voltage?: number }).voltage !== input.spec.voltage
+	);
+	if (wrong.length > 0)
+		return { ok: false, reason: 'battery-voltage', codes: wrong.map((b) => b.code).sort() };
 	return null;
 }
 
-async function saveTruckModel(id: string | null, input: TruckModelInput): Promise<CatalogueSaveOutcome<TruckModelRow>> {
+async function saveTruckModel(
+	id: string | null,
+	input: TruckModelInput
+): Promise<CatalogueSaveOutcome<TruckModelRow>> {
 	try {
-		const outcome = await sequelize.transaction(async (transaction): Promise<CatalogueSaveOutcome<TruckModelRow>> => {
-			let truck: TruckModel | null = null;
-			if (id) {
-				truck = await TruckModel.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
-				if (!truck) return { ok: false, reason: 'not-found' };
+		const outcome = await sequelize.transaction(
+			async (transaction): Promise<CatalogueSaveOutcome<TruckModelRow>> => {
+				let truck: TruckModel | null = null;
+				if (id) {
+					truck = await TruckModel.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
+					if (!truck) return { ok: false, reason: 'not-found' };
+				}
+				if (await codeTaken(TruckModel, 'code', input.code, id, transaction)) {
+					return { ok: false, reason: 'duplicate', code: input.code };
+				}
+				const refused = await checkCompatibleBatteries(input, transaction);
+				if (refused) return refused;
+				const values = {
+					code: input.code,
+					name: input.name,
+					family: input.family,
+					capacityKg: input.capacityKg,
+					priceCents: input.priceCents,
+					costCents: input.costCents,
+					spec: input.spec as unknown as Record<string, unknown>
+				};
+				if (truck) await truck.update(values, { transaction });
+				else truck = await TruckModel.create(values, { transaction });
+				await TruckModelBattery.destroy({ where: { truckModelId: truck.id }, transaction });
+				if (input.batteryIds.length > 0) {
+					await TruckModelBattery.bulkCreate(
+						input.batteryIds.map((batteryId) => ({ truckModelId: truck!.id, batteryId })),
+						{ transaction }
+					);
+				}
+				return { ok: true, row: truckRow(truck, [...input.batteryIds]) };
 			}
-			if (await codeTaken(TruckModel, 'code', input.code, id, transaction)) {
-				return { ok: false, reason: 'duplicate', code: input.code };
-			}
-			const refused = await checkCompatibleBatteries(input, transaction);
-			if (refused) return refused;
-			const values = {
-				code: input.code,
-				name: input.name,
-				family: input.family,
-				capacityKg: input.capacityKg,
-				priceCents: input.priceCents,
-				costCents: input.costCents,
-				spec: input.spec as unknown as Record<string, unknown>
-			};
-			if (truck) await truck.update(values, { transaction });
-			else truck = await TruckModel.create(values, { transaction });
-			await TruckModelBattery.destroy({ where: { truckModelId: truck.id }, transaction });
-			if (input.batteryIds.length > 0) {
-				await TruckModelBattery.bulkCreate(
-					input.batteryIds.map((batteryId) => ({ truckModelId: truck!.id, batteryId })),
-					{ transaction }
-				);
-			}
-			return { ok: true, row: truckRow(truck, [...input.batteryIds]) };
-		});
+		);
 		if (outcome.ok) clearCatalogueCache();
 		return outcome;
 	} catch (err) {
@@ -298,12 +323,17 @@ async function saveTruckModel(id: string | null, input: TruckModelInput): Promis
 }
 
 /** Adds a truck model with its compatible batteries, in one transaction. */
-export function createTruckModel(input: TruckModelInput): Promise<CatalogueSaveOutcome<TruckModelRow>> {
+export function createTruckModel(
+	input: TruckModelInput
+): Promise<CatalogueSaveOutcome<TruckModelRow>> {
 	return saveTruckModel(null, input);
 }
 
 /** Replaces a truck model's fields and compatible batteries, in one transaction. */
-export function updateTruckModel(id: string, input: TruckModelInput): Promise<CatalogueSaveOutcome<TruckModelRow>> {
+export function updateTruckModel(
+	id: string,
+	input: TruckModelInput
+): Promise<CatalogueSaveOutcome<TruckModelRow>> {
 	return saveTruckModel(id, input);
 }
 
@@ -329,20 +359,24 @@ export function restoreTruckModel(id: string): Promise<boolean> {
 
 /** Deletes a truck model (and its compatibility links) unless a survey refers to it. */
 export async function deleteTruckModel(id: string): Promise<CatalogueDeleteOutcome> {
-	const outcome = await sequelize.transaction(async (transaction): Promise<CatalogueDeleteOutcome> => {
-		const truck = await TruckModel.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
-		if (!truck) return { ok: false, reason: 'not-found' };
-		const surveys = await surveysReferencingModel([truck.id, truck.code], transaction);
-		if (surveys > 0) return { ok: false, reason: 'in-use', surveys };
-		await truck.destroy({ transaction });
-		return { ok: true, code: truck.code };
-	});
+	const outcome = await sequelize.transaction(
+		async (transaction): Promise<CatalogueDeleteOutcome> => {
+			const truck = await TruckModel.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
+			if (!truck) return { ok: false, reason: 'not-found' };
+			const surveys = await surveysReferencingModel([truck.id, truck.code], transaction);
+			if (surveys > 0) return { ok: false, reason: 'in-use', surveys };
+			await truck.destroy({ transaction });
+			return { ok: true, code: truck.code };
+		}
+	);
 	if (outcome.ok) clearCatalogueCache();
 	return outcome;
 }
 
 /** A battery by id with the truck models that list it as compatible (retired ones too). */
-export async function trucksListingBattery(batteryId: string): Promise<{ id: string; code: string; name: string; retired: boolean }[]> {
+export async function trucksListingBattery(
+	batteryId: string
+): Promise<{ id: string; code: string; name: string; retired: boolean }[]> {
 	const links = await TruckModelBattery.findAll({ where: { batteryId } });
 	if (links.length === 0) return [];
 	const trucks = await TruckModel.findAll({
@@ -363,28 +397,33 @@ export async function compatibleBatteries(truckModelId: string): Promise<Battery
 	return rows.map(batteryRow);
 }
 
-async function saveBattery(id: string | null, input: BatteryInput): Promise<CatalogueSaveOutcome<BatteryRow>> {
+async function saveBattery(
+	id: string | null,
+	input: BatteryInput
+): Promise<CatalogueSaveOutcome<BatteryRow>> {
 	try {
-		const outcome = await sequelize.transaction(async (transaction): Promise<CatalogueSaveOutcome<BatteryRow>> => {
-			let battery: Battery | null = null;
-			if (id) {
-				battery = await Battery.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
-				if (!battery) return { ok: false, reason: 'not-found' };
+		const outcome = await sequelize.transaction(
+			async (transaction): Promise<CatalogueSaveOutcome<BatteryRow>> => {
+				let battery: Battery | null = null;
+				if (id) {
+					battery = await Battery.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
+					if (!battery) return { ok: false, reason: 'not-found' };
+				}
+				if (await codeTaken(Battery, 'code', input.code, id, transaction)) {
+					return { ok: false, reason: 'duplicate', code: input.code };
+				}
+				const values = {
+					code: input.code,
+					name: input.name,
+					priceCents: input.priceCents,
+					costCents: input.costCents,
+					spec: input.spec as unknown as Record<string, unknown>
+				};
+				if (battery) await battery.update(values, { transaction });
+				else battery = await Battery.create(values, { transaction });
+				return { ok: true, row: batteryRow(battery) };
 			}
-			if (await codeTaken(Battery, 'code', input.code, id, transaction)) {
-				return { ok: false, reason: 'duplicate', code: input.code };
-			}
-			const values = {
-				code: input.code,
-				name: input.name,
-				priceCents: input.priceCents,
-				costCents: input.costCents,
-				spec: input.spec as unknown as Record<string, unknown>
-			};
-			if (battery) await battery.update(values, { transaction });
-			else battery = await Battery.create(values, { transaction });
-			return { ok: true, row: batteryRow(battery) };
-		});
+		);
 		if (outcome.ok) clearCatalogueCache();
 		return outcome;
 	} catch (err) {
@@ -397,7 +436,10 @@ export function createBattery(input: BatteryInput): Promise<CatalogueSaveOutcome
 	return saveBattery(null, input);
 }
 
-export function updateBattery(id: string, input: BatteryInput): Promise<CatalogueSaveOutcome<BatteryRow>> {
+export function updateBattery(
+	id: string,
+	input: BatteryInput
+): Promise<CatalogueSaveOutcome<BatteryRow>> {
 	return saveBattery(id, input);
 }
 
@@ -412,14 +454,16 @@ export function restoreBattery(id: string): Promise<boolean> {
 
 /** Deletes a battery (and its compatibility links) unless a survey refers to it. */
 export async function deleteBattery(id: string): Promise<CatalogueDeleteOutcome> {
-	const outcome = await sequelize.transaction(async (transaction): Promise<CatalogueDeleteOutcome> => {
-		const battery = await Battery.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
-		if (!battery) return { ok: false, reason: 'not-found' };
-		const surveys = await surveysReferencingModel([battery.id, battery.code], transaction);
-		if (surveys > 0) return { ok: false, reason: 'in-use', surveys };
-		await battery.destroy({ transaction });
-		return { ok: true, code: battery.code };
-	});
+	const outcome = await sequelize.transaction(
+		async (transaction): Promise<CatalogueDeleteOutcome> => {
+			const battery = await Battery.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
+			if (!battery) return { ok: false, reason: 'not-found' };
+			const surveys = await surveysReferencingModel([battery.id, battery.code], transaction);
+			if (surveys > 0) return { ok: false, reason: 'in-use', surveys };
+			await battery.destroy({ transaction });
+			return { ok: true, code: battery.code };
+		}
+	);
 	if (outcome.ok) clearCatalogueCache();
 	return outcome;
 }
@@ -431,29 +475,34 @@ export async function findEquipment(id: string): Promise<EquipmentRow | null> {
 	return row ? equipmentRow(row) : null;
 }
 
-async function saveEquipment(id: string | null, input: EquipmentInput): Promise<CatalogueSaveOutcome<EquipmentRow>> {
+async function saveEquipment(
+	id: string | null,
+	input: EquipmentInput
+): Promise<CatalogueSaveOutcome<EquipmentRow>> {
 	try {
-		const outcome = await sequelize.transaction(async (transaction): Promise<CatalogueSaveOutcome<EquipmentRow>> => {
-			let item: Equipment | null = null;
-			if (id) {
-				item = await Equipment.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
-				if (!item) return { ok: false, reason: 'not-found' };
+		const outcome = await sequelize.transaction(
+			async (transaction): Promise<CatalogueSaveOutcome<EquipmentRow>> => {
+				let item: Equipment | null = null;
+				if (id) {
+					item = await Equipment.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
+					if (!item) return { ok: false, reason: 'not-found' };
+				}
+				if (await codeTaken(Equipment, 'sku', input.sku, id, transaction)) {
+					return { ok: false, reason: 'duplicate', code: input.sku };
+				}
+				const values = {
+					sku: input.sku,
+					kind: input.kind,
+					name: input.name,
+					priceCents: input.priceCents,
+					costCents: input.costCents,
+					spec: input.spec as unknown as Record<string, unknown>
+				};
+				if (item) await item.update(values, { transaction });
+				else item = await Equipment.create(values, { transaction });
+				return { ok: true, row: equipmentRow(item) };
 			}
-			if (await codeTaken(Equipment, 'sku', input.sku, id, transaction)) {
-				return { ok: false, reason: 'duplicate', code: input.sku };
-			}
-			const values = {
-				sku: input.sku,
-				kind: input.kind,
-				name: input.name,
-				priceCents: input.priceCents,
-				costCents: input.costCents,
-				spec: input.spec as unknown as Record<string, unknown>
-			};
-			if (item) await item.update(values, { transaction });
-			else item = await Equipment.create(values, { transaction });
-			return { ok: true, row: equipmentRow(item) };
-		});
+		);
 		if (outcome.ok) clearCatalogueCache();
 		return outcome;
 	} catch (err) {
@@ -462,11 +511,16 @@ async function saveEquipment(id: string | null, input: EquipmentInput): Promise<
 	}
 }
 
-export function createEquipment(input: EquipmentInput): Promise<CatalogueSaveOutcome<EquipmentRow>> {
+export function createEquipment(
+	input: EquipmentInput
+): Promise<CatalogueSaveOutcome<EquipmentRow>> {
 	return saveEquipment(null, input);
 }
 
-export function updateEquipment(id: string, input: EquipmentInput): Promise<CatalogueSaveOutcome<EquipmentRow>> {
+export function updateEquipment(
+	id: string,
+	input: EquipmentInput
+): Promise<CatalogueSaveOutcome<EquipmentRow>> {
 	return saveEquipment(id, input);
 }
 
@@ -481,14 +535,16 @@ export function restoreEquipment(id: string): Promise<boolean> {
 
 /** Deletes an equipment item unless a survey carries its SKU. */
 export async function deleteEquipment(id: string): Promise<CatalogueDeleteOutcome> {
-	const outcome = await sequelize.transaction(async (transaction): Promise<CatalogueDeleteOutcome> => {
-		const item = await Equipment.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
-		if (!item) return { ok: false, reason: 'not-found' };
-		const surveys = await surveysReferencingSku(item.sku, transaction);
-		if (surveys > 0) return { ok: false, reason: 'in-use', surveys };
-		await item.destroy({ transaction });
-		return { ok: true, code: item.sku };
-	});
+	const outcome = await sequelize.transaction(
+		async (transaction): Promise<CatalogueDeleteOutcome> => {
+			const item = await Equipment.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
+			if (!item) return { ok: false, reason: 'not-found' };
+			const surveys = await surveysReferencingSku(item.sku, transaction);
+			if (surveys > 0) return { ok: false, reason: 'in-use', surveys };
+			await item.destroy({ transaction });
+			return { ok: true, code: item.sku };
+		}
+	);
 	if (outcome.ok) clearCatalogueCache();
 	return outcome;
 }

@@ -27,7 +27,10 @@ export const load: PageServerLoad = async (event) => {
 		items: items
 			.filter((i) => (kind ? i.kind === kind : true))
 			.filter((i) => (status === 'all' ? true : status === 'retired' ? i.retired : !i.retired))
-			.sort((a, b) => (order.get(a.kind) ?? 99) - (order.get(b.kind) ?? 99) || a.sku.localeCompare(b.sku))
+			.sort(
+				(a, b) =>
+					(order.get(a.kind) ?? 99) - (order.get(b.kind) ?? 99) || a.sku.localeCompare(b.sku)
+			)
 			.map((i) => ({
 				id: i.id,
 				sku: i.sku,

@@ -1,5 +1,9 @@
 import { requirePermission } from '$lib/server/auth/guard';
-import { listBatteries, listTruckFamilies, listTruckModels } from '$lib/server/repositories/catalogue';
+import {
+	listBatteries,
+	listTruckFamilies,
+	listTruckModels
+} from '$lib/server/repositories/catalogue';
 import type { PageServerLoad } from './$types';
 
 const STATUSES = ['all', 'active', 'retired'] as const;

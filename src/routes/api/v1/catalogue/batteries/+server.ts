@@ -19,10 +19,17 @@ export const GET: RequestHandler = async (event) => {
 	requirePermission(event, 'catalogue:read');
 	const headers = { 'cache-control': 'private, no-cache' };
 	const ref = event.url.searchParams.get('truck');
-	if (ref === null) return json({ truck: null, batteries: (await listBatteries()).map(shape) }, { headers });
+	if (ref === null)
+		return json({ truck: null, batteries: (await listBatteries()).map(shape) }, { headers });
 	const trimmed = ref.trim();
 	if (trimmed === '' || trimmed.length > 100) {
-		return json({ message: 'Give a truck model id or code as ?truck=.', errors: { truck: ['Choose a truck model.'] } }, { status: 400 });
+		return json(
+			{
+				message: 'Give a truck model id or code as ?truck=.',
+				errors: { truck: ['Choose a truck model.'] }
+			},
+			{ status: 400 }
+		);
 	}
 	const truck = await findTruckModel(trimmed);
 	if (!truck) return json({ message: 'No truck model with this id or code.' }, { status: 404 });

@@ -30,7 +30,9 @@ export const load: PageServerLoad = async (event) => {
 		trucks,
 		surveys,
 		created: event.url.searchParams.has('created'),
-		form: await superValidate(batteryFormValues(battery, user.unitSystem), adapter, { errors: false }),
+		form: await superValidate(batteryFormValues(battery, user.unitSystem), adapter, {
+			errors: false
+		}),
 		unitSystem: user.unitSystem
 	};
 };
@@ -44,13 +46,17 @@ export const actions: Actions = {
 		if (!read.ok) return fail(400, { form });
 		const outcome = await updateBattery(event.params.id, read.value);
 		if (!outcome.ok) return refusedSave(form, outcome, BATTERY_WORDS);
-		const saved = await superValidate(batteryFormValues(outcome.row, user.unitSystem), adapter, { errors: false });
+		const saved = await superValidate(batteryFormValues(outcome.row, user.unitSystem), adapter, {
+			errors: false
+		});
 		return message(saved, `Saved ${outcome.row.code}.`);
 	},
 	retire: async (event) => {
 		requirePermission(event, 'admin:catalogue');
 		if (!(await retireBattery(event.params.id))) error(404, 'No battery with this id.');
-		return { done: 'Retired: new surveys no longer offer this battery; surveys that use it keep it.' };
+		return {
+			done: 'Retired: new surveys no longer offer this battery; surveys that use it keep it.'
+		};
 	},
 	restore: async (event) => {
 		requirePermission(event, 'admin:catalogue');

@@ -30,7 +30,9 @@ export const load: PageServerLoad = async (event) => {
 		item: { id: item.id, sku: item.sku, name: item.name, retired: item.retired },
 		surveys: await surveysReferencingSku(item.sku),
 		created: event.url.searchParams.has('created'),
-		form: await superValidate(equipmentFormValues(item, user.unitSystem), adapter, { errors: false }),
+		form: await superValidate(equipmentFormValues(item, user.unitSystem), adapter, {
+			errors: false
+		}),
 		kinds: EDITABLE_EQUIPMENT_KINDS.map((k) => ({ value: k, label: KIND_LABELS[k] })),
 		unitSystem: user.unitSystem
 	};
@@ -45,7 +47,9 @@ export const actions: Actions = {
 		if (!read.ok) return fail(400, { form });
 		const outcome = await updateEquipment(event.params.id, read.value);
 		if (!outcome.ok) return refusedSave(form, outcome, EQUIPMENT_WORDS);
-		const saved = await superValidate(equipmentFormValues(outcome.row, user.unitSystem), adapter, { errors: false });
+		const saved = await superValidate(equipmentFormValues(outcome.row, user.unitSystem), adapter, {
+			errors: false
+		});
 		return message(saved, `Saved ${outcome.row.sku}.`);
 	},
 	retire: async (event) => {

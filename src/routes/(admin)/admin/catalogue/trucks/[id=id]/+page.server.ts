@@ -49,13 +49,17 @@ export const actions: Actions = {
 		const outcome = await updateTruckModel(event.params.id, read.value);
 		if (!outcome.ok) return refusedSave(form, outcome, TRUCK_WORDS);
 		// the stored values, as they will read from now on
-		const saved = await superValidate(truckFormValues(outcome.row, user.unitSystem), adapter, { errors: false });
+		const saved = await superValidate(truckFormValues(outcome.row, user.unitSystem), adapter, {
+			errors: false
+		});
 		return message(saved, `Saved ${outcome.row.code}.`);
 	},
 	retire: async (event) => {
 		requirePermission(event, 'admin:catalogue');
 		if (!(await retireTruckModel(event.params.id))) error(404, 'No truck model with this id.');
-		return { done: 'Retired: new surveys no longer offer this model; surveys that use it keep it.' };
+		return {
+			done: 'Retired: new surveys no longer offer this model; surveys that use it keep it.'
+		};
 	},
 	restore: async (event) => {
 		requirePermission(event, 'admin:catalogue');
