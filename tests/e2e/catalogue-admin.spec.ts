@@ -168,12 +168,14 @@ test('admin is told what is wrong with a truck model, retires it and restores it
 	await snap(page, 'catalogue-trucks-with-retired-768x1024');
 
 	await card.getByRole('link', { name: new RegExp(code) }).click();
+	await expect(page.getByRole('heading', { level: 1, name: new RegExp(code) })).toBeVisible();
 	await hydrated(page);
 	await page.getByRole('button', { name: 'Restore' }).click();
 	await expect(page.getByRole('status').filter({ hasText: 'Restored:' })).toBeVisible();
 
 	// deleting asks once more; nothing uses the new model, so it goes
 	await page.getByRole('button', { name: 'Delete…' }).click();
+	await expect(page.getByRole('button', { name: `Delete ${code}` })).toBeVisible();
 	await snap(page, 'catalogue-truck-delete-confirm-768x1024');
 	await page.getByRole('button', { name: `Delete ${code}` }).click();
 	await expect(page).toHaveURL(/\/admin\/catalogue\/trucks\?deleted=/);
@@ -188,6 +190,7 @@ test('the equipment form shows the fields of the chosen kind', async ({ page }) 
 	await snap(page, 'catalogue-equipment-768x1024');
 
 	await page.getByRole('link', { name: 'Add equipment' }).click();
+	await expect(page.getByRole('heading', { level: 1, name: 'Add equipment' })).toBeVisible();
 	await hydrated(page);
 	await page.getByLabel('Kind').selectOption('pallet-truck');
 	await expect(page.getByLabel('Fork length', { exact: true })).toBeVisible();
@@ -205,7 +208,12 @@ test('the equipment form shows the fields of the chosen kind', async ({ page }) 
 	await page.getByLabel('Cost').fill('1,300');
 	await page.getByLabel('Roller height', { exact: true }).fill('8.5 in');
 	await page.getByLabel('Lowest setting', { exact: true }).fill('7 in');
-	await page.getByLabel('Highest setting', { exact: true }).fill('10 in');
+	// a bare number takes the unit picked beside it: 10 in = 254 mm, not 10 mm
+	await page.getByLabel('Unit of a plain number for highest setting').selectOption('in');
+	await page.getByLabel('Highest setting', { exact: true }).fill('10');
+	await expect(page.getByTestId('equipment-adjustMax-reading')).toHaveText(
+		'Reads as 254 mm (10.0 in)'
+	);
 	await page.getByLabel('Rated capacity', { exact: true }).fill('4,400 lb');
 	await touchTargets(page);
 	await accessible(page);
@@ -215,6 +223,7 @@ test('the equipment form shows the fields of the chosen kind', async ({ page }) 
 	// 8.5 in = 215.9 mm → 216 mm; 4 400 lb = 1 995.8 kg
 	await expect(page.getByLabel('Roller height', { exact: true })).toHaveValue('216 mm');
 	await expect(page.getByLabel('Rated capacity', { exact: true })).toHaveValue('1995.8 kg');
+	await expect(page.getByLabel('Highest setting', { exact: true })).toHaveValue('254 mm');
 });
 
 test('the truck list becomes a table on a landscape tablet', async ({ page }) => {
