@@ -101,6 +101,7 @@ test('admin adds a battery, then edits its weight typing "2,900 lb" and sees bot
 
 	await page.getByRole('button', { name: 'Save changes' }).click();
 	await expect(page.getByRole('status').filter({ hasText: `Saved ${code}.` })).toBeVisible();
+	await expect(page.getByText(`Added ${code}.`)).toHaveCount(0);
 	// the stored value, written back in the admin's metric system, still reads as both units
 	await expect(weight).toHaveValue('1315.4 kg');
 	await expect(page.getByTestId('battery-weight-reading')).toHaveText(

@@ -261,9 +261,11 @@ async function checkCompatibleBatteries(
 	transaction: Transaction
 ): Promise<CatalogueSaveOutcome<never> | null> {
 	if (input.batteryIds.length === 0) return null;
+	// FOR SHARE: a battery deleted meanwhile waits for this save, so every link stays valid
 	const batteries = await Battery.findAll({
 		where: { id: { [Op.in]: input.batteryIds } },
-		transaction
+		transaction,
+		lock: transaction.LOCK.SHARE
 	});
 	if (batteries.length !== input.batteryIds.length)
 		return { ok: false, reason: 'unknown-batteries' };
@@ -373,7 +375,7 @@ export async function deleteTruckModel(id: string): Promise<CatalogueDeleteOutco
 	return outcome;
 }
 
-/** A battery by id with the truck models that list it as compatible (retired ones too). */
+/** The truck models that list a battery as compatible (retired ones too), by code. */
 export async function trucksListingBattery(
 	batteryId: string
 ): Promise<{ id: string; code: string; name: string; retired: boolean }[]> {
