@@ -91,9 +91,9 @@ async function cannon(t: Target, seconds: number): Promise<autocannon.Result> {
 	});
 }
 
-/** One request first (it must answer 200; its SQL count is kept), a warm-up run (not counted), then the measured one. */
-async function measure(t: Target): Promise<HttpFigures> {
-	const probe = await get(() =>
+/** One request outside the load: its status, SQL statements (x-sql-queries) and body size. */
+async function probe(t: Target): Promise<{ status: number; sql: number; bytes: number }> {
+	const res = await get(() =>
 		fetch(BASE + t.path, {
 			method: t.method ?? 'GET',
 			headers: { origin: BASE, ...t.headers },
@@ -101,14 +101,24 @@ async function measure(t: Target): Promise<HttpFigures> {
 			redirect: 'manual'
 		})
 	);
-	const probeBytes = (await probe.arrayBuffer()).byteLength;
-	if (probe.status !== 200) throw new Error(`${t.route} answered ${probe.status} before the load`);
+	const bytes = (await res.arrayBuffer()).byteLength;
+	return { status: res.status, sql: Number(res.headers.get('x-sql-queries') ?? NaN), bytes };
+}
+
+/**
+ * One request first (it must answer 200), a warm-up run (not counted), one request after it for the
+ * steady SQL count (caches filled), then the measured run.
+ */
+async function measure(t: Target): Promise<HttpFigures> {
+	const first = await probe(t);
+	if (first.status !== 200) throw new Error(`${t.route} answered ${first.status} before the load`);
 	await cannon(t, WARMUP_SECONDS);
+	const steady = await probe(t);
 	const r = await cannon(t, SECONDS);
 	return {
 		route: t.route,
-		sqlQueries: Number(probe.headers.get('x-sql-queries') ?? NaN),
-		responseBytes: probeBytes,
+		sqlQueries: steady.sql,
+		responseBytes: steady.bytes,
 		connections: CONNECTIONS,
 		seconds: r.duration,
 		requestsPerSecond: r.requests.average,
@@ -278,6 +288,7 @@ async function main(): Promise<void> {
 	if (new URL(BASE).hostname !== '127.0.0.1')
 		throw new Error(`refusing to load ${BASE}: the benchmark only targets 127.0.0.1`);
 	const started = new Date();
+	const loadBefore = os.loadavg()[0];
 	const health = await fetch(`${BASE}/api/health`);
 	if (health.status !== 200) throw new Error(`${BASE}/api/health answered ${health.status}`);
 
@@ -427,6 +438,8 @@ async function main(): Promise<void> {
 	const report = {
 		generatedAt: started.toISOString(),
 		seconds: (Date.now() - started.getTime()) / 1000,
+		/** 1-minute load average at the start and the end: other work on the machine skews every figure */
+		loadAverage: { start: loadBefore, end: os.loadavg()[0] },
 		machine: {
 			node: process.version,
 			platform: `${os.platform()} ${os.release()}`,
@@ -461,7 +474,7 @@ async function main(): Promise<void> {
 		`\nTraywise benchmark, ${started.toISOString().slice(0, 16).replace('T', ' ')} UTC, commit ${report.commit ?? '?'}, Node ${process.version}, ${os.cpus().length} CPUs`
 	);
 	console.log(
-		`(app, database and load generator share this machine; HTTP: ${CONNECTIONS} connections for ${SECONDS} s after ${WARMUP_SECONDS} s warm-up)\n`
+		`(app, database and load generator share this machine, 1-min load average ${report.loadAverage.start.toFixed(1)} → ${report.loadAverage.end.toFixed(1)}; HTTP: ${CONNECTIONS} connections for ${SECONDS} s after ${WARMUP_SECONDS} s warm-up)\n`
 	);
 	printTable(rows);
 	const missed = rows.filter((r) => r.met === false).length;
