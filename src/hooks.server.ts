@@ -16,7 +16,12 @@ export const init: ServerInit = async () => {
 	if (!building) {
 		// once per process (MAIL_WORKER_IN_APP=false leaves delivery to scripts/mail-worker.ts)
 		const worker = startInAppMailWorker();
-		if (worker) process.once('sveltekit:shutdown', () => void worker.stop());
+		// after SIGTERM the server finishes its requests, then this: finish the mail pass, close the
+		// pool (idle connections would keep the process alive for another 10 s), and the process exits
+		process.once('sveltekit:shutdown', async () => {
+			await worker?.stop();
+			await sequelize.close().catch(() => {});
+		});
 	}
 };
 
