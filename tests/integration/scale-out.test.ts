@@ -22,7 +22,7 @@ import { insertOpenCheckout } from '$lib/server/repositories/payments';
 import { createUser } from '$lib/server/repositories/users';
 import { SIGN_IN_LIMITS } from '$lib/server/auth/throttle';
 import { BASE, DEMO, client, signIn } from '../helpers/http';
-import { demoIds } from '../helpers/scenario';
+import { buildQuote, chosenSurvey, demoIds, quoteState, saveWithDiscount } from '../helpers/scenario';
 import { makePng } from '../helpers/images';
 import { sleep, waitFor } from '../helpers/services';
 
@@ -386,8 +386,45 @@ describe('two app processes on one database', () => {
 		expect(payments).toEqual([{ status: 'paid' }]);
 	});
 
-	// The customer's quote page (/q/<token>) and its deposit checkout are being finished on main. Once
-	// merged: send a quote on A, open its link and accept on B, start the deposit checkout on A, pay on
-	// the provider fake's hosted page, and see the quote "deposit paid" on both processes, paid once.
-	it.todo('accepts a quote on one process and pays its deposit on the other');
+	// Send a quote on A, open its link and accept on B, start the deposit checkout on B, pay on the
+	// provider fake's hosted page, and see the quote "deposit paid" on both processes, paid once.
+	it('accepts a quote on one process and pays its deposit on the other', async () => {
+		const rep = await signIn(DEMO.rep);
+		const email = `two-processes-${Date.now()}@marlow-crossing.example`;
+		const quoteId = await buildQuote(rep, await chosenSurvey(rep, { contactEmail: email }));
+		expect((await saveWithDiscount(rep, quoteId, 5, { contactEmail: email })).status).toBe(200);
+		for (const action of ['mark-ready', 'send']) expect((await rep.post(`/api/v1/quotes/${quoteId}/actions`, { action })).status).toBe(200);
+		const [mail] = await sequelize.query<{ text: string }>(
+			`SELECT text FROM mail_outbox WHERE to_address = :email AND kind = 'quote-to-customer'`,
+			{ replacements: { email }, type: QueryTypes.SELECT }
+		);
+		const token = /\/q\/([A-Za-z0-9_-]{43})/.exec(mail.text)![1];
+		// both processes answer for one public address (A's ORIGIN), as behind a load balancer
+		const onB = (p: string, form: Record<string, string>) =>
+			fetch(`${B}${p}`, {
+				method: 'POST',
+				redirect: 'manual',
+				headers: { origin: A, accept: 'text/html', 'content-type': 'application/x-www-form-urlencoded' },
+				body: new URLSearchParams(form)
+			});
+		expect((await fetch(`${B}/q/${token}`)).status).toBe(200);
+		expect((await onB(`/q/${token}?/accept`, { fullName: 'Dana Quillfeather', agree: 'on' })).status).toBe(303);
+		const pay = await onB(`/q/${token}?/pay`, {});
+		expect(pay.status).toBe(303);
+		const checkout = pay.headers.get('location')!;
+		const paid = await fetch(checkout, {
+			method: 'POST',
+			redirect: 'manual',
+			headers: { 'content-type': 'application/x-www-form-urlencoded' },
+			body: new URLSearchParams({ card_number: '4242 4242 4242 4242', expiry: '12 / 30', cvc: '123' })
+		});
+		expect(paid.status).toBe(303);
+		await waitFor('deposit paid', async () => ((await quoteState(quoteId)) === 'deposit-paid' ? true : null), 20_000);
+		for (const base of [A, B]) expect(await (await fetch(`${base}/q/${token}/paid`)).text()).toContain('Deposit received');
+		const rows = await sequelize.query<{ status: string }>(`SELECT status FROM payments WHERE quote_id = :id`, {
+			replacements: { id: quoteId },
+			type: QueryTypes.SELECT
+		});
+		expect(rows).toEqual([{ status: 'paid' }]);
+	});
 });
