@@ -79,7 +79,19 @@ const databaseDown: Handle = async ({ event, resolve }) => {
 	}
 };
 
+/** For answers that are not pages (kit.csp covers those): JSON loads nothing and is never framed. */
+const DATA_CSP = "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'";
+
 const securityHeaders: Handle = async ({ event, resolve }) => {
+	if (event.url.pathname.startsWith('/api/')) {
+		// API routes speak JSON, errors included: SvelteKit picks the format of a thrown error from the
+		// Accept header, and a browser opening an API address asks for HTML first.
+		try {
+			event.request.headers.set('accept', 'application/json');
+		} catch {
+			// immutable request headers: the JSON shape then depends on the caller's Accept
+		}
+	}
 	let response = await resolve(event);
 	try {
 		response.headers.set('x-content-type-options', 'nosniff');
@@ -92,6 +104,12 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	if (!response.headers.has('x-frame-options')) response.headers.set('x-frame-options', 'DENY');
 	response.headers.set('referrer-policy', 'strict-origin-when-cross-origin');
 	response.headers.set('permissions-policy', 'camera=(self), microphone=(), geolocation=()');
+	if (
+		!response.headers.has('content-security-policy') &&
+		(response.headers.get('content-type') ?? '').startsWith('application/json')
+	) {
+		response.headers.set('content-security-policy', DATA_CSP);
+	}
 	response.headers.delete('x-powered-by');
 	response.headers.delete('server');
 	return response;
