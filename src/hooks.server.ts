@@ -4,6 +4,7 @@ import { sequence } from '@sveltejs/kit/hooks';
 import { lucia } from '$lib/server/auth/lucia';
 import { building } from '$app/environment';
 import { isDatabaseDownError, queryCounter, sequelize } from '$lib/server/db';
+import { BAD_VALUE_MESSAGE, isBadValueError } from '$lib/server/db/bad-value';
 import { startInAppMailWorker } from '$lib/server/email/worker';
 
 export const init: ServerInit = async () => {
@@ -115,6 +116,15 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
+/** A value PostgreSQL refused (see handleError) is the sender's mistake: 400, not 500. */
+const badValue: Handle = async ({ event, resolve }) => {
+	const response = await resolve(event);
+	if (response.status === 500 && (event.locals as { badValue?: boolean }).badValue) {
+		return new Response(response.body, { status: 400, headers: new Headers(response.headers) });
+	}
+	return response;
+};
+
 /** With TRAYWISE_COUNT_QUERIES=1, every response says how many SQL statements it took. */
 const countQueries: Handle = async ({ event, resolve }) => {
 	if (process.env.TRAYWISE_COUNT_QUERIES !== '1') return resolve(event);
@@ -128,7 +138,7 @@ const countQueries: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-export const handle = sequence(countQueries, securityHeaders, databaseDown, session);
+export const handle = sequence(countQueries, securityHeaders, databaseDown, badValue, session);
 
 export const handleError: HandleServerError = ({ error, event, status }) => {
 	const errorId = randomUUID();
@@ -137,5 +147,9 @@ export const handleError: HandleServerError = ({ error, event, status }) => {
 		return { message: DB_DOWN_MESSAGE, errorId };
 	}
 	if (status !== 404) console.error(`[traywise] ${errorId}`, event.url.pathname, error);
+	if (isBadValueError(error)) {
+		(event.locals as { badValue?: boolean }).badValue = true;
+		return { message: BAD_VALUE_MESSAGE, errorId };
+	}
 	return { message: status === 404 ? 'Not found.' : 'Something went wrong on our side.', errorId };
 };
