@@ -5,6 +5,8 @@ declare global {
 		interface Error {
 			message: string;
 			errorId?: string;
+			/** why a customer link cannot show its quote */
+			kind?: 'superseded' | 'expired' | 'invalid';
 		}
 		interface Locals {
 			user: SessionUser | null;

@@ -1,3 +1,4 @@
+import { sequelize } from './index';
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { Battery, Equipment, Team, TruckModel, TruckModelBattery, User } from './models';
@@ -187,6 +188,8 @@ export async function seedDemo(): Promise<number> {
 
 	const customers = readJson<CustomersFile>('customers.json');
 	if (customers) added += await seedCustomers(customers);
+	const surveys = readJson<SurveysFile>('surveys.json');
+	if (surveys) added += await seedSurveys(surveys);
 	added += await seedPricing();
 	return added;
 }
@@ -252,4 +255,55 @@ async function seedPricing(): Promise<number> {
 	const published = await publishVersion(id, null);
 	if (!published.ok) throw new Error(`could not publish the opening price book: ${published.reason}`);
 	return added + items.length + 1;
+}
+
+interface SurveysFile {
+	surveys: {
+		key: string;
+		customer: string;
+		site: string;
+		owner: string;
+		currentStep: string;
+		truck: string;
+		battery: string;
+		data: Record<string, Record<string, unknown>>;
+	}[];
+}
+
+/** Demo surveys, matched by their key (stored as the survey's client token); never duplicated. */
+async function seedSurveys(file: SurveysFile): Promise<number> {
+	let added = 0;
+	for (const s of file.surveys) {
+		const [row] = (await sequelize.query(
+			`SELECT c.id AS customer_id, st.id AS site_id, u.id AS owner_id, u.team_id,
+			        (SELECT id FROM truck_models WHERE code = :truck) AS truck_id,
+			        (SELECT id FROM batteries WHERE code = :battery) AS battery_id
+			 FROM customers c JOIN sites st ON st.customer_id = c.id, users u
+			 WHERE c.name = :customer AND st.name = :site AND u.email = :owner`,
+			{ replacements: { truck: s.truck, battery: s.battery, customer: s.customer, site: s.site, owner: s.owner } }
+		)) as [{ customer_id: string; site_id: string; owner_id: string; team_id: string | null; truck_id: string; battery_id: string }[], unknown];
+		if (!row[0]) continue;
+		const r = row[0];
+		const data = structuredClone(s.data);
+		data.site = { ...data.site, customerId: r.customer_id, siteId: r.site_id };
+		data.fleet = { ...data.fleet, truckModelId: r.truck_id, batteryId: r.battery_id };
+		const [inserted] = (await sequelize.query(
+			`INSERT INTO surveys (customer_id, site_id, owner_id, team_id, current_step, data, client_token)
+			 VALUES (:customerId, :siteId, :ownerId, :teamId, :step, :data::jsonb, :key)
+			 ON CONFLICT (client_token) DO NOTHING RETURNING id`,
+			{
+				replacements: {
+					customerId: r.customer_id,
+					siteId: r.site_id,
+					ownerId: r.owner_id,
+					teamId: r.team_id,
+					step: s.currentStep,
+					data: JSON.stringify(data),
+					key: `seed:${s.key}`
+				}
+			}
+		)) as [{ id: string }[], unknown];
+		if (inserted.length) added++;
+	}
+	return added;
 }

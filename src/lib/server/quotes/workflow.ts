@@ -24,7 +24,7 @@ import { needsApproval } from './approval';
 import { transition, type ActorRole, type QuoteAction } from './states';
 import { formatQuoteNumber, validUntil } from './numbering';
 import { buildQuotePdf, type PdfSettings } from '../pdf/quote-pdf';
-import { notifyQuoteEvent } from './notify';
+import { notifyQuoteEvent, type QuoteEventNotice } from './notify';
 
 export type Outcome<T = undefined> = { ok: true; value: T } | { ok: false; status: 400 | 403 | 404 | 409; message: string };
 
@@ -359,7 +359,14 @@ export async function act(
 	quoteId: string,
 	actor: { user: SessionUser | null; role: ActorRole },
 	action: QuoteAction,
-	opts: { comment?: string; now?: Date; transaction?: Transaction; revisionId?: string } = {}
+	opts: {
+		comment?: string;
+		now?: Date;
+		transaction?: Transaction;
+		revisionId?: string;
+		/** details the notice needs: the customer's typed name, the payment reference */
+		notice?: Pick<QuoteEventNotice, 'acceptedByName' | 'paymentReference' | 'amountCents'>;
+	} = {}
 ): Promise<Outcome<{ state: string; revisionId: string; changed: boolean }>> {
 	const now = opts.now ?? new Date();
 	const run = async (t: Transaction): Promise<Outcome<{ state: string; revisionId: string; changed: boolean }>> => {
@@ -423,7 +430,11 @@ export async function act(
 		}
 
 		const fields: Record<string, unknown> = { state: decision.to };
+		const extra: Partial<QuoteEventNotice> = { ...opts.notice };
 		if (action === 'send') {
+			if (!rev.contactEmail) {
+				return { ok: false, status: 409, message: "Add the customer contact's e-mail address before sending: the quote goes there." };
+			}
 			const settings = await getCompanySettings();
 			const until = validUntil(now, rev.validityDays, settings.timeZone ?? 'UTC');
 			const sentView: QuoteView = { ...q, revision: { ...rev, state: 'sent', sentAt: now.toISOString(), validUntil: until.toISOString() } };
@@ -432,10 +443,12 @@ export async function act(
 			fields.valid_until = until;
 			fields.pdf = pdf;
 			fields.pdf_sha256 = createHash('sha256').update(pdf).digest('hex');
+			extra.pdf = pdf;
+			extra.validUntil = until;
 		}
 		await updateRevision(rev.id, fields, t);
 		await recordEvent(event, t);
-		await notifyQuoteEvent({ quote: q, action, to: decision.to, comment: decision.record.comment, actor: actor.user, now }, t);
+		await notifyQuoteEvent({ quote: q, action, to: decision.to, comment: decision.record.comment, actor: actor.user, now, ...extra }, t);
 		return { ok: true, value: { state: decision.to, revisionId: rev.id, changed: true } };
 	};
 	return opts.transaction ? run(opts.transaction) : sequelize.transaction(run);

@@ -1,4 +1,5 @@
 import { json } from '@sveltejs/kit';
+import '$lib/server/quotes/deposit';
 import { WebhookSignatureError, handlePaymentEvent, verifyPaymentEvent } from '$lib/server/payments/events';
 import type { RequestHandler } from './$types';
 

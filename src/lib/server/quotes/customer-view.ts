@@ -1,0 +1,73 @@
+import { error } from '@sveltejs/kit';
+import { getQuote, type QuoteView } from '../repositories/quotes';
+import { resolveLink, type ResolvedLink } from './customer-links';
+import { isPastValidity } from './states';
+import { priceLine, type LineKind } from './pricing';
+
+/**
+ * Opens a customer link: 404 for a token never issued, 410 for a superseded revision or an expired
+ * quote (saying only that), else the link and the quote. Reveals nothing else.
+ */
+export async function openLink(token: string, now = new Date()): Promise<{ link: ResolvedLink; quote: QuoteView }> {
+	const link = await resolveLink(token);
+	if (!link) error(404, { message: 'This link is not valid. Check that it was copied whole from the e-mail.', kind: 'invalid' });
+	if (link.revision < link.latestRevision) {
+		error(410, { message: 'A newer revision of this quote has been prepared for you.', kind: 'superseded' });
+	}
+	if (link.state === 'expired' || (isPastValidity(now, link.expiresAt) && !['accepted', 'deposit-paid'].includes(link.state))) {
+		error(410, { message: 'This quote has passed its validity date. Ask your sales contact for a fresh one.', kind: 'expired' });
+	}
+	const found = await getQuote(link.quoteId, null, { revision: link.revision });
+	if (!found.ok) error(404, { message: 'This link is not valid.', kind: 'invalid' });
+	return { link, quote: found.value };
+}
+
+/** What the customer may see of a quote: no costs, margins or internal notes on lines. */
+export function customerSafe(q: QuoteView) {
+	const rev = q.revision;
+	const t = rev.totals;
+	return {
+		number: rev.number,
+		revision: rev.revision,
+		state: rev.state,
+		customerName: q.customerName,
+		siteName: q.siteName,
+		siteAddress: q.siteAddress,
+		ownerName: q.ownerName,
+		ownerEmail: q.ownerEmail,
+		contactName: rev.contactName,
+		setupId: rev.setupId,
+		setupName: rev.setupName,
+		validUntil: rev.validUntil,
+		sentAt: rev.sentAt,
+		terms: rev.terms,
+		notes: rev.notes,
+		taxLabel: rev.taxLabel,
+		engineResult: rev.engineResult,
+		engineInput: rev.engineInput,
+		lines: q.lines.map((l) => {
+			const p = priceLine({ ...l, kind: l.kind as LineKind });
+			return {
+				sku: l.sku,
+				description: l.description,
+				quantity: l.quantity,
+				noCharge: l.noCharge,
+				unitListCents: l.unitListCents,
+				lineDiscountBp: p.lineDiscountBp,
+				netCents: p.netCents
+			};
+		}),
+		totals: {
+			subtotalCents: t.subtotalCents,
+			overallDiscountBp: t.overallDiscountBp,
+			overallDiscountCents: t.overallDiscountCents,
+			netBeforeTaxCents: t.netBeforeTaxCents,
+			taxRateBp: t.taxRateBp,
+			taxCents: t.taxCents,
+			totalCents: t.totalCents,
+			depositShareBp: t.depositShareBp,
+			depositCents: t.depositCents,
+			balanceCents: t.balanceCents
+		}
+	};
+}
