@@ -7,7 +7,8 @@ import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BASE, DEMO, client, signIn, type Client } from '../helpers/http';
 import { readRoutes, fillRoute } from '../helpers/routes';
-import { buildQuote, chosenSurvey, demoIds, quoteLines } from '../helpers/scenario';
+import { buildQuote, chosenSurvey, demoIds, quoteLines, quoteState } from '../helpers/scenario';
+import { mailedQuoteToken } from '../helpers/customer-link';
 import { makePng } from '../helpers/images';
 import { sequelize } from '$lib/server/db';
 import { isBadValueError } from '$lib/server/db/bad-value';
@@ -379,8 +380,11 @@ const JSON_ROUTES: Record<string, JsonRoute> = {
 	}
 };
 
-/** Routes whose body is not JSON: multipart files (tests/integration/uploads.test.ts). */
-const NOT_JSON = new Set(['api/v1/uploads']);
+/**
+ * Routes whose POST is not JSON: multipart files (tests/integration/uploads.test.ts), and the
+ * customer page's "it was opened" beacon, which reads no body at all.
+ */
+const NOT_JSON = new Set(['api/v1/uploads', 'q/[token]/viewed']);
 
 const routes = readRoutes();
 const bodyRoutes = routes.filter((r) =>
@@ -746,6 +750,25 @@ describe('markup, SQL and right-to-left text round-trip as text', () => {
 		expect((await manager.get(`/quotes/${hostileQuoteId}`)).status).toBe(200);
 	});
 
+	it('on the customer’s page, with the name typed to accept', async () => {
+		expect(
+			(await rep.post(`/api/v1/quotes/${hostileQuoteId}/actions`, { action: 'mark-ready' })).status
+		).toBe(200);
+		expect(
+			(await rep.post(`/api/v1/quotes/${hostileQuoteId}/actions`, { action: 'send' })).status
+		).toBe(200);
+		const token = await mailedQuoteToken(hostileQuoteId);
+		expect(token).toBeTruthy();
+		const customer = client();
+		await expectShownAsText(customer, `/q/${token}`, ['C1', 'S1', 'Q1', 'Q2'], { C1: run });
+		const accepted = await customer.action(`/q/${token}?/accept`, {
+			fullName: hostile('A1'),
+			agree: 'on'
+		});
+		expect(accepted.status).toBe(303);
+		await expectShownAsText(customer, `/q/${token}`, ['A1']);
+	});
+
 	it('on the admin pages: a user name, a price-book label, a tax rate label', async () => {
 		const email = `hostile-${run}@test.traywise.test`;
 		const user = await admin.action('/admin/users?/create', {
@@ -892,6 +915,14 @@ describe('a NUL character in forms and addresses', () => {
 				{ ...truckFields(`NUL-B-${run}`), family: nul }
 			]
 		];
+		// the customer's acceptance: the name typed is stored and shown to staff
+		const sent = await buildQuote(rep, surveyId);
+		expect(
+			(await rep.post(`/api/v1/quotes/${sent}/actions`, { action: 'mark-ready' })).status
+		).toBe(200);
+		expect((await rep.post(`/api/v1/quotes/${sent}/actions`, { action: 'send' })).status).toBe(200);
+		const token = (await mailedQuoteToken(sent))!;
+		posts.push([client(), `/q/${token}?/accept`, { fullName: nul, agree: 'on' }]);
 		for (const [c, path, fields] of posts) {
 			const res = await c.action(path, fields);
 			expect(res.status, path).toBe(400);
@@ -926,6 +957,7 @@ describe('a NUL character in forms and addresses', () => {
 			}
 		);
 		expect(survey.notes ?? '').not.toContain('\u0000');
+		expect(await quoteState(sent)).toBe('sent');
 	});
 
 	it('in a search or filter address gives the page (or a JSON 400), never a 500', async () => {
