@@ -4,6 +4,7 @@ import { sequence } from '@sveltejs/kit/hooks';
 import { lucia } from '$lib/server/auth/lucia';
 import { building } from '$app/environment';
 import { isDatabaseDownError, queryCounter, sequelize } from '$lib/server/db';
+import { BAD_VALUE_MESSAGE, isBadValueError } from '$lib/server/db/bad-value';
 import { startInAppMailWorker } from '$lib/server/email/worker';
 
 export const init: ServerInit = async () => {
@@ -133,7 +134,19 @@ const databaseDown: Handle = async ({ event, resolve }) => {
 	}
 };
 
+/** For answers that are not pages (kit.csp covers those): JSON loads nothing and is never framed. */
+const DATA_CSP = "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'";
+
 const securityHeaders: Handle = async ({ event, resolve }) => {
+	if (event.url.pathname.startsWith('/api/')) {
+		// API routes speak JSON, errors included: SvelteKit picks the format of a thrown error from the
+		// Accept header, and a browser opening an API address asks for HTML first.
+		try {
+			event.request.headers.set('accept', 'application/json');
+		} catch {
+			// immutable request headers: the JSON shape then depends on the caller's Accept
+		}
+	}
 	let response = await resolve(event);
 	try {
 		response.headers.set('x-content-type-options', 'nosniff');
@@ -146,8 +159,23 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	if (!response.headers.has('x-frame-options')) response.headers.set('x-frame-options', 'DENY');
 	response.headers.set('referrer-policy', 'strict-origin-when-cross-origin');
 	response.headers.set('permissions-policy', 'camera=(self), microphone=(), geolocation=()');
+	if (
+		!response.headers.has('content-security-policy') &&
+		(response.headers.get('content-type') ?? '').startsWith('application/json')
+	) {
+		response.headers.set('content-security-policy', DATA_CSP);
+	}
 	response.headers.delete('x-powered-by');
 	response.headers.delete('server');
+	return response;
+};
+
+/** A value PostgreSQL refused (see handleError) is the sender's mistake: 400, not 500. */
+const badValue: Handle = async ({ event, resolve }) => {
+	const response = await resolve(event);
+	if (response.status === 500 && (event.locals as { badValue?: boolean }).badValue) {
+		return new Response(response.body, { status: 400, headers: new Headers(response.headers) });
+	}
 	return response;
 };
 
@@ -164,7 +192,7 @@ const countQueries: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-export const handle = sequence(countQueries, securityHeaders, databaseDown, session);
+export const handle = sequence(countQueries, securityHeaders, databaseDown, badValue, session);
 
 export const handleError: HandleServerError = ({ error, event, status }) => {
 	const errorId = randomUUID();
@@ -173,5 +201,9 @@ export const handleError: HandleServerError = ({ error, event, status }) => {
 		return { message: DB_DOWN_MESSAGE, errorId };
 	}
 	if (status !== 404) console.error(`[traywise] ${errorId}`, event.url.pathname, error);
+	if (isBadValueError(error)) {
+		(event.locals as { badValue?: boolean }).badValue = true;
+		return { message: BAD_VALUE_MESSAGE, errorId };
+	}
 	return { message: status === 404 ? 'Not found.' : 'Something went wrong on our side.', errorId };
 };

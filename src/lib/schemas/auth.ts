@@ -6,7 +6,13 @@ export const loginSchema = z.object({
 });
 
 export const userCreateSchema = z.object({
-	name: z.string().trim().min(1, 'Enter a name.').max(120),
+	name: z
+		.string()
+		.trim()
+		.min(1, 'Enter a name.')
+		.max(120)
+		// eslint-disable-next-line no-control-regex
+		.refine((v) => !/[\u0000-\u001f\u007f]/.test(v), 'Use plain text, without control characters.'),
 	email: z.string().trim().toLowerCase().max(254).email('Enter a valid e-mail address.'),
 	role: z.enum(['rep', 'manager', 'admin']),
 	teamId: z.string().uuid().nullable().default(null),

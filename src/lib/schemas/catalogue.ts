@@ -254,7 +254,14 @@ export const codeSchema = (what: string) =>
 		);
 
 const nameSchema = (what: string) =>
-	z.string().trim().min(1, `Enter the ${what}.`).max(120, `Keep the ${what} to 120 characters.`);
+	z
+		.string()
+		.trim()
+		.min(1, `Enter the ${what}.`)
+		.max(120, `Keep the ${what} to 120 characters.`)
+		// one line of text: the database layer would store a NUL as the two characters "\0"
+		// eslint-disable-next-line no-control-regex
+		.refine((s) => !/[\u0000-\u001f\u007f]/.test(s), `The ${what} must be one line of plain text.`);
 
 /** a typed value; read and checked by the form's refinement */
 const typed = z.string().max(60, 'This is too long to be a value.').default('');
@@ -445,7 +452,9 @@ const truckFormBase = z.object({
 		.string()
 		.trim()
 		.min(1, 'Enter the family.')
-		.max(60, 'Keep the family to 60 characters.'),
+		.max(60, 'Keep the family to 60 characters.')
+		// eslint-disable-next-line no-control-regex
+		.refine((s) => !/[\u0000-\u001f\u007f]/.test(s), 'The family must be one line of plain text.'),
 	capacity: typed,
 	...money,
 	...truckFields,

@@ -1,5 +1,12 @@
 import { z } from 'zod';
 
+// Control characters never belong in quote text (PostgreSQL cannot even store NUL); notes and
+// comments keep tabs and line breaks.
+// eslint-disable-next-line no-control-regex
+const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/;
+const PLAIN = 'Use plain text, without control characters.';
+const plain = <T extends z.ZodType<string>>(schema: T) => schema.refine((v) => !CONTROL.test(v), PLAIN);
+
 /** A percentage typed by a person ("12.5") as whole basis points (1 250). */
 export const percentBp = z
 	.number({ error: 'Enter a percentage.' })
@@ -8,7 +15,7 @@ export const percentBp = z
 	.transform((v) => Math.round(v * 100));
 
 export const quoteLineEditSchema = z.object({
-	sku: z.string().trim().min(1).max(64),
+	sku: plain(z.string().trim().min(1).max(64)),
 	quantity: z.number({ error: 'Enter a quantity.' }).int('Quantities are whole numbers.').min(0).max(10_000),
 	discountPercent: percentBp
 });
@@ -17,16 +24,16 @@ export const quoteLineEditSchema = z.object({
 export const quoteEditSchema = z.object({
 	lines: z.array(quoteLineEditSchema).min(1, 'A quote needs at least one line.').max(200),
 	overallDiscountPercent: percentBp,
-	taxRegion: z.string().trim().max(20).nullable(),
-	notes: z.string().max(4_000),
-	contactName: z.string().trim().max(120),
+	taxRegion: plain(z.string().trim().max(20)).nullable(),
+	notes: plain(z.string().max(4_000)),
+	contactName: plain(z.string().trim().max(120)),
 	contactEmail: z.union([z.literal(''), z.string().trim().email('Enter a valid e-mail address.').max(254)])
 });
 export type QuoteEdit = z.input<typeof quoteEditSchema>;
 
 export const quoteActionSchema = z.object({
 	action: z.enum(['submit', 'approve', 'request-changes', 'mark-ready', 'send', 'revise']),
-	comment: z.string().trim().max(2_000).optional()
+	comment: plain(z.string().trim().max(2_000)).optional()
 });
 
 export const quoteListQuerySchema = z.object({

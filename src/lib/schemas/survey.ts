@@ -22,7 +22,16 @@ const mm = (label: string, max = 5_000) =>
 	z.number({ error: `Enter the ${label}.` }).positive(`The ${label} must be above zero.`).max(max, `The ${label} looks too large.`);
 const kg = (label: string, max = 20_000) =>
 	z.number({ error: `Enter the ${label}.` }).positive(`The ${label} must be above zero.`).max(max, `The ${label} looks too large.`);
-const text = (max: number) => z.string().trim().max(max, `Keep it under ${max} characters.`);
+// Control characters never belong in survey text (PostgreSQL cannot even store NUL); notes keep
+// tabs and line breaks.
+// eslint-disable-next-line no-control-regex
+const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/;
+const text = (max: number) =>
+	z
+		.string()
+		.trim()
+		.max(max, `Keep it under ${max} characters.`)
+		.refine((v) => !CONTROL.test(v), 'Use plain text, without control characters.');
 
 export const siteStepSchema = z.object({
 	customerId: z.uuid({ error: 'Choose the customer.' }),

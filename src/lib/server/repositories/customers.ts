@@ -248,16 +248,36 @@ function customerFields(input: CustomerInput) {
 	return { name: input.name, accountNumber: input.accountNumber || null, notes: input.notes };
 }
 
-/** Creates a customer owned by `owner` (the rep who enters it, and their team). */
-export async function createCustomer(input: CustomerInput, owner: { id: string; teamId: string | null }): Promise<SaveResult> {
+async function customerByToken(clientToken: string | null): Promise<string | null> {
+	if (!clientToken) return null;
+	return (await Customer.findOne({ where: { clientToken }, attributes: ['id'] }))?.id ?? null;
+}
+
+/**
+ * Creates a customer owned by `owner` (the rep who enters it, and their team). With the form's
+ * `clientToken`, sending the same form again (a double tap, a retry) answers the customer it made.
+ */
+export async function createCustomer(
+	input: CustomerInput,
+	owner: { id: string; teamId: string | null },
+	clientToken: string | null = null
+): Promise<SaveResult> {
 	const fields = customerFields(input);
-	if (await accountTaken(fields.accountNumber)) return { ok: false, field: 'accountNumber', message: ACCOUNT_TAKEN };
+	// the same form sent before (or at the same moment): its customer, not a refusal of the
+	// account number it just took
+	const sameForm = async (): Promise<SaveResult> => {
+		const made = await customerByToken(clientToken);
+		return made ? { ok: true, id: made } : { ok: false, field: 'accountNumber', message: ACCOUNT_TAKEN };
+	};
+	const made = await customerByToken(clientToken);
+	if (made) return { ok: true, id: made };
+	if (await accountTaken(fields.accountNumber)) return sameForm();
 	try {
-		const c = await Customer.create({ ...fields, ownerId: owner.id, teamId: owner.teamId });
+		const c = await Customer.create({ ...fields, ownerId: owner.id, teamId: owner.teamId, clientToken });
 		return { ok: true, id: c.id };
 	} catch (err) {
-		// two people saving the same account number at once: the unique index decides
-		if (err instanceof UniqueConstraintError) return { ok: false, field: 'accountNumber', message: ACCOUNT_TAKEN };
+		// the unique indexes (token, account number) decide between saves at the same moment
+		if (err instanceof UniqueConstraintError) return sameForm();
 		throw err;
 	}
 }

@@ -1,4 +1,4 @@
-import { Op, fn, col, where as sqlWhere } from 'sequelize';
+import { Op, UniqueConstraintError, fn, col, where as sqlWhere } from 'sequelize';
 import { sequelize } from '../db';
 import { Team, User, Session } from '../db/models';
 import { dummyPasswordHash, hashPassword, verifyPassword } from '../auth/password';
@@ -60,6 +60,10 @@ export async function emailTaken(email: string): Promise<boolean> {
 	return (await User.count({ where: byEmail(email) })) > 0;
 }
 
+/** Another account has this e-mail (two admins, or one double tap, adding it at the same moment). */
+export class EmailTakenError extends Error {}
+
+/** Adds an account; throws EmailTakenError when the e-mail (in any case) has one already. */
 export async function createUser(input: {
 	name: string;
 	email: string;
@@ -67,14 +71,20 @@ export async function createUser(input: {
 	teamId: string | null;
 	password: string;
 }): Promise<string> {
-	const user = await User.create({
-		name: input.name,
-		email: input.email.trim().toLowerCase(),
-		role: input.role,
-		teamId: input.teamId,
-		passwordHash: await hashPassword(input.password)
-	});
-	return user.id;
+	try {
+		const user = await User.create({
+			name: input.name,
+			email: input.email.trim().toLowerCase(),
+			role: input.role,
+			teamId: input.teamId,
+			passwordHash: await hashPassword(input.password)
+		});
+		return user.id;
+	} catch (err) {
+		// the unique index on lower(email) decides between saves at the same moment
+		if (err instanceof UniqueConstraintError) throw new EmailTakenError(input.email);
+		throw err;
+	}
 }
 
 /**

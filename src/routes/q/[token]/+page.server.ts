@@ -12,7 +12,14 @@ import { createDepositCheckout, PaymentsRequestError, PaymentsUnavailableError }
 import type { Actions, PageServerLoad } from './$types';
 
 const acceptSchema = z.object({
-	fullName: z.string().trim().min(2, 'Type your full name as it should appear on the acceptance.').max(120, 'Keep the name under 120 characters.'),
+	fullName: z
+		.string()
+		.trim()
+		.min(2, 'Type your full name as it should appear on the acceptance.')
+		.max(120, 'Keep the name under 120 characters.')
+		// one line of plain text (the database layer would store a NUL as the two characters "\0")
+		// eslint-disable-next-line no-control-regex
+		.refine((v) => !/[\u0000-\u001f\u007f]/.test(v), 'Type your name as plain text.'),
 	agree: z.literal('on', { error: 'Tick the box to agree to the terms.' })
 });
 

@@ -19,6 +19,8 @@ export class Customer extends Model<InferAttributes<Customer>, InferCreationAttr
 	/** the rep who created it, and that rep's team at the time */
 	declare ownerId: string | null;
 	declare teamId: string | null;
+	/** from the "add a customer" form: a repeat of the same form finds this customer */
+	declare clientToken: CreationOptional<string | null>;
 	declare createdAt: CreationOptional<Date>;
 	declare updatedAt: CreationOptional<Date>;
 }
@@ -30,6 +32,7 @@ Customer.init(
 		notes: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
 		ownerId: { type: DataTypes.UUID, allowNull: true },
 		teamId: { type: DataTypes.UUID, allowNull: true },
+		clientToken: { type: DataTypes.TEXT, allowNull: true },
 		createdAt: DataTypes.DATE,
 		updatedAt: DataTypes.DATE
 	},

@@ -6,6 +6,7 @@ import { requirePermission } from '$lib/server/auth/guard';
 import {
 	countActiveAdmins,
 	createUser,
+	EmailTakenError,
 	emailTaken,
 	listTeams,
 	listUsers,
@@ -29,8 +30,14 @@ export const actions: Actions = {
 		const password = form.data.password;
 		form.data.password = '';
 		if (!form.valid) return fail(400, { createForm: form });
-		if (await emailTaken(form.data.email)) return setError(form, 'email', 'A user with this e-mail already exists.');
-		await createUser({ ...form.data, password });
+		const taken = () => setError(form, 'email', 'A user with this e-mail already exists.');
+		if (await emailTaken(form.data.email)) return taken();
+		try {
+			await createUser({ ...form.data, password });
+		} catch (err) {
+			if (err instanceof EmailTakenError) return taken();
+			throw err;
+		}
 		return message(form, `Added ${form.data.name}.`);
 	},
 	update: async (event) => {

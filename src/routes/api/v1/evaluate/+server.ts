@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/auth/guard';
 import { runEvaluation } from '$lib/server/evaluation';
+import { readJsonBody } from '$lib/server/json-body';
 import type { RequestHandler } from './$types';
 
 /** bodies above 64 KB are refused before parsing */
@@ -12,26 +13,9 @@ const MAX_EVALUATE_BODY_BYTES = 64 * 1024;
  */
 export const POST: RequestHandler = async (event) => {
 	requirePermission(event, 'evaluate:run');
-	const declared = Number(event.request.headers.get('content-length') ?? '0');
-	if (declared > MAX_EVALUATE_BODY_BYTES) {
-		return json({ message: 'The request body is larger than 64 KB.' }, { status: 413 });
-	}
-	let text: string;
-	try {
-		text = await event.request.text();
-	} catch {
-		return json({ message: 'The request body could not be read.' }, { status: 400 });
-	}
-	if (Buffer.byteLength(text) > MAX_EVALUATE_BODY_BYTES) {
-		return json({ message: 'The request body is larger than 64 KB.' }, { status: 413 });
-	}
-	let body: unknown;
-	try {
-		body = JSON.parse(text);
-	} catch {
-		return json({ message: 'The body is not valid JSON.', errors: { '(body)': ['Send a JSON object.'] } }, { status: 400 });
-	}
-	const outcome = await runEvaluation(body);
+	const body = await readJsonBody(event.request, MAX_EVALUATE_BODY_BYTES);
+	if (!body.ok) return body.response;
+	const outcome = await runEvaluation(body.value);
 	if (!outcome.ok) return json({ message: outcome.message, errors: outcome.errors }, { status: outcome.status });
 	return json(outcome.result, { headers: { 'cache-control': 'no-store' } });
 };

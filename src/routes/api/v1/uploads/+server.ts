@@ -6,8 +6,14 @@ import type { Permission } from '$lib/server/auth/permissions';
 import { customerExists } from '$lib/server/repositories/customers';
 import { getSurvey } from '$lib/server/repositories/surveys';
 import { storeUpload } from '$lib/server/uploads';
-import { MAX_FILES_PER_REQUEST, type OwnerType, type UploadResult } from '$lib/uploads';
+import { MAX_FILES_PER_REQUEST, MAX_UPLOAD_TEXT, type OwnerType, type UploadResult } from '$lib/uploads';
 import type { RequestHandler } from './$types';
+
+/** SvelteKit's 413 for a body over BODY_SIZE_LIMIT, as the body reader passes it on. */
+function tooLarge(err: unknown): boolean {
+	const status = (e: unknown) => (e && typeof e === 'object' ? (e as { status?: unknown }).status : undefined);
+	return status(err) === 413 || status((err as { cause?: unknown } | null)?.cause) === 413;
+}
 
 /** Who may attach files to each kind of owner. */
 const ATTACH: Record<OwnerType, Permission> = {
@@ -27,7 +33,12 @@ export const POST: RequestHandler = async (event) => {
 	let form: FormData;
 	try {
 		form = await event.request.formData();
-	} catch {
+	} catch (err) {
+		if (tooLarge(err)) {
+			// BODY_SIZE_LIMIT refused the request before any file could be read
+			const message = `The upload is larger than the server takes in one request. Send fewer files at a time (each at most ${MAX_UPLOAD_TEXT}).`;
+			return json({ message, errors: { files: [message] } }, { status: 413 });
+		}
 		return json(
 			{ message: 'Send the files as multipart/form-data with ownerType, ownerId, kind and files.' },
 			{ status: 400 }

@@ -3,17 +3,8 @@ import { requirePermission } from '$lib/server/auth/guard';
 import { autosaveSchema, draftStepSchema } from '$lib/schemas/survey';
 import { fieldErrors } from '$lib/server/evaluation';
 import { getSurvey, saveStep } from '$lib/server/repositories/surveys';
+import { readJsonBody } from '$lib/server/json-body';
 import type { RequestHandler } from './$types';
-
-async function readJson(request: Request): Promise<unknown> {
-	const text = await request.text();
-	if (text.length > 256 * 1024) error(413, 'The survey step is larger than 256 KB.');
-	try {
-		return JSON.parse(text);
-	} catch {
-		error(400, 'The body is not valid JSON.');
-	}
-}
 
 /** The survey as stored (resume on another device). */
 export const GET: RequestHandler = async (event) => {
@@ -33,7 +24,9 @@ export const PATCH: RequestHandler = async (event) => {
 	const found = await getSurvey(event.params.id, user);
 	if (!found.ok) error(found.status, found.status === 404 ? 'No such survey.' : 'This survey belongs to another team.');
 
-	const body = autosaveSchema.safeParse(await readJson(event.request));
+	const raw = await readJsonBody(event.request, 256 * 1024);
+	if (!raw.ok) return raw.response;
+	const body = autosaveSchema.safeParse(raw.value);
 	if (!body.success) {
 		return json({ message: 'The save request is not in the expected shape.', errors: fieldErrors(body.error.issues) }, { status: 400 });
 	}

@@ -5,6 +5,7 @@ import { quoteActionSchema } from '$lib/schemas/quote';
 import { fieldErrors } from '$lib/server/evaluation';
 import { ACTION_PERMISSION, act } from '$lib/server/quotes/workflow';
 import { getQuote } from '$lib/server/repositories/quotes';
+import { readJsonBody } from '$lib/server/json-body';
 import type { RequestHandler } from './$types';
 
 /** The quote's state and history (JSON). */
@@ -19,13 +20,9 @@ export const GET: RequestHandler = async (event) => {
 /** `{ action, comment? }` — a state change, decided by the one transitions module. 409 when refused. */
 export const POST: RequestHandler = async (event) => {
 	const user = requirePermission(event, 'quote:read');
-	let body: unknown;
-	try {
-		body = await event.request.json();
-	} catch {
-		return json({ message: 'The body is not valid JSON.' }, { status: 400 });
-	}
-	const parsed = quoteActionSchema.safeParse(body);
+	const body = await readJsonBody(event.request, 16 * 1024);
+	if (!body.ok) return body.response;
+	const parsed = quoteActionSchema.safeParse(body.value);
 	if (!parsed.success) return json({ message: 'Unknown action.', errors: fieldErrors(parsed.error.issues) }, { status: 400 });
 	if (!can(user.role, ACTION_PERMISSION[parsed.data.action])) return json({ message: 'Your role does not allow this.' }, { status: 403 });
 	const done = await act(event.params.id, { user, role: user.role }, parsed.data.action, { comment: parsed.data.comment });

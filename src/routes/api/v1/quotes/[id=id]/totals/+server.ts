@@ -5,6 +5,7 @@ import { getQuote } from '$lib/server/repositories/quotes';
 import { getCompanySettings, taxRateFor } from '$lib/server/repositories/pricing';
 import { fieldErrors } from '$lib/server/evaluation';
 import { figures, linesFromEdit } from '$lib/server/quotes/workflow';
+import { readJsonBody } from '$lib/server/json-body';
 import type { RequestHandler } from './$types';
 
 /**
@@ -16,15 +17,9 @@ export const POST: RequestHandler = async (event) => {
 	const found = await getQuote(event.params.id, user);
 	if (!found.ok) error(found.status, found.status === 404 ? 'No such quote.' : 'This quote belongs to another team.');
 	const q = found.value;
-	let body: unknown;
-	try {
-		const text = await event.request.text();
-		if (text.length > 200_000) return json({ message: 'Too large.' }, { status: 413 });
-		body = JSON.parse(text);
-	} catch {
-		return json({ message: 'The body is not valid JSON.' }, { status: 400 });
-	}
-	const parsed = quoteEditSchema.safeParse(body);
+	const body = await readJsonBody(event.request, 200_000);
+	if (!body.ok) return body.response;
+	const parsed = quoteEditSchema.safeParse(body.value);
 	if (!parsed.success) return json({ message: 'Check the figures.', errors: fieldErrors(parsed.error.issues) }, { status: 400 });
 	const d = parsed.data;
 	const priced = await linesFromEdit(
