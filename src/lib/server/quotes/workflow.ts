@@ -361,6 +361,14 @@ export async function saveDraft(quoteId: string, user: SessionUser, edit: DraftE
 
 const FAR_FUTURE = new Date('9999-12-31T23:59:59Z');
 
+/** how long an action waits for another action on the same quote (less than the statement timeout) */
+const ACT_LOCK_TIMEOUT_MS = 3_000;
+
+function pgCode(err: unknown): string {
+	const e = err as { original?: { code?: string }; parent?: { code?: string }; code?: string };
+	return e?.original?.code ?? e?.parent?.code ?? e?.code ?? '';
+}
+
 /** The dealer block of the PDF, from the company settings. */
 export async function pdfSettings(): Promise<PdfSettings> {
 	const [s, logo] = await Promise.all([getCompanySettings(), getLogo()]);
@@ -476,5 +484,17 @@ export async function act(
 		await notifyQuoteEvent({ quote: q, action, to: decision.to, comment: decision.record.comment, actor: actor.user, now, ...extra }, t);
 		return { ok: true, value: { state: decision.to, revisionId: rev.id, changed: true } };
 	};
-	return opts.transaction ? run(opts.transaction) : sequelize.transaction(run);
+	if (opts.transaction) return run(opts.transaction);
+	try {
+		return await sequelize.transaction(async (t) => {
+			// two people acting on one quote at once: the second waits a moment, then is told so
+			await sequelize.query(`SET LOCAL lock_timeout = '${ACT_LOCK_TIMEOUT_MS}ms'`, { transaction: t });
+			return run(t);
+		});
+	} catch (err) {
+		if (pgCode(err) === '55P03') {
+			return { ok: false, status: 409, message: 'Someone else is changing this quote right now. Try again in a moment.' };
+		}
+		throw err;
+	}
 }
