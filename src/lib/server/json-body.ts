@@ -43,7 +43,14 @@ export async function readJsonBody(request: Request, maxBytes: number): Promise<
 	const bad = unstorableText(value);
 	if (bad.length > 0) {
 		const errors: FieldErrors = {};
-		for (const p of bad) errors[p] = ['Remove the NUL character or broken Unicode from this text.'];
+		// defineProperty: a path named "__proto__" must become a key, not the object's prototype
+		for (const p of bad)
+			Object.defineProperty(errors, p, {
+				value: ['Remove the NUL character or broken Unicode from this text.'],
+				enumerable: true,
+				writable: true,
+				configurable: true
+			});
 		return {
 			ok: false,
 			response: json({ message: 'Some text cannot be stored as it is.', errors }, { status: 400 })
