@@ -42,7 +42,8 @@ export async function readJsonBody(request: Request, maxBytes: number): Promise<
 	}
 	const bad = unstorableText(value);
 	if (bad.length > 0) {
-		const errors: FieldErrors = {};
+		// no prototype: a field named "__proto__" is a field like any other
+		const errors: FieldErrors = Object.create(null);
 		for (const p of bad) errors[p] = ['Remove the NUL character or broken Unicode from this text.'];
 		return {
 			ok: false,
