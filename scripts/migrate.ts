@@ -1,5 +1,9 @@
-import { migrator } from '../src/lib/server/db/migrate';
-import { sequelize } from '../src/lib/server/db';
+// A schema change on a big table may run longer than the app's per-statement limits: lift them here
+// (before the database module is loaded, hence the dynamic imports).
+process.env.DB_STATEMENT_TIMEOUT_MS ||= '0';
+process.env.DB_QUERY_TIMEOUT_MS ||= '0';
+const { migrator } = await import('../src/lib/server/db/migrate');
+const { sequelize } = await import('../src/lib/server/db');
 
 const direction = process.argv[2] ?? 'up';
 try {

@@ -1,5 +1,5 @@
 import { randomUUID } from 'node:crypto';
-import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
+import type { Handle, HandleServerError, RequestEvent, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { lucia } from '$lib/server/auth/lucia';
 import { building } from '$app/environment';
@@ -17,7 +17,12 @@ export const init: ServerInit = async () => {
 	if (!building) {
 		// once per process (MAIL_WORKER_IN_APP=false leaves delivery to scripts/mail-worker.ts)
 		const worker = startInAppMailWorker();
-		if (worker) process.once('sveltekit:shutdown', () => void worker.stop());
+		// after SIGTERM the server finishes its requests, then this: finish the mail pass, close the
+		// pool (idle connections would keep the process alive for another 10 s), and the process exits
+		process.once('sveltekit:shutdown', async () => {
+			await worker?.stop();
+			await sequelize.close().catch(() => {});
+		});
 	}
 };
 
@@ -53,30 +58,79 @@ const session: Handle = async ({ event, resolve }) => {
 
 const DB_DOWN_MESSAGE = 'The database is not answering right now. Nothing was changed; try again in a moment.';
 
-/** A stopped database answers 503 (page or JSON), never a 500 or a hung request. */
+function escapeHtml(text: string): string {
+	return text.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
+}
+
+/** The page shown instead of any page while the database is away (no layout: that needs the database too). */
+function databaseDownPage(path: string): string {
+	return `<!doctype html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<title>Traywise — database not answering</title>
+</head>
+<body style="margin:0;font-family:system-ui,sans-serif;background:#f8fafc;color:#0f172a">
+<main style="max-width:36rem;margin:4rem auto;padding:2rem;background:#fff;border:1px solid #cbd5e1;border-radius:.5rem">
+<p style="margin:0 0 .5rem;color:#475569;font-size:.875rem">Traywise · error 503</p>
+<h1 style="margin:0 0 1rem;font-size:1.5rem">We cannot reach the database</h1>
+<p>${DB_DOWN_MESSAGE}</p>
+<p>Anything you were saving when this happened was not stored; send it again once this page loads normally.</p>
+<p><a href="${escapeHtml(path)}" style="color:#115e59;font-weight:600">Try again</a></p>
+</main>
+</body>
+</html>`;
+}
+
+/** Requests the SvelteKit client reads itself: page data for client-side navigation and enhanced form actions. */
+function isClientRequest(event: RequestEvent): boolean {
+	return event.url.pathname.endsWith('/__data.json') || event.request.headers.get('x-sveltekit-action') === 'true';
+}
+
+function wantsJson(event: RequestEvent): boolean {
+	return event.url.pathname.startsWith('/api/') || (event.request.headers.get('accept') ?? '').includes('application/json');
+}
+
+/**
+ * The 503 answer while the database is away: a plain page for browsers, `{ message }` for JSON
+ * routes, and for the SvelteKit client the body it expects (an error with the same message).
+ * `rendered` is the 500 SvelteKit produced for an error thrown in a load, action or endpoint.
+ */
+function databaseDownResponse(event: RequestEvent, rendered?: Response): Response {
+	const headers = new Headers({ 'retry-after': '5', 'cache-control': 'no-store' });
+	const renderedType = rendered?.headers.get('content-type') ?? '';
+	if (rendered && (isClientRequest(event) || renderedType.startsWith('application/json'))) {
+		// SvelteKit's own body already carries handleError's message in the shape its client reads
+		headers.set('content-type', renderedType || 'application/json');
+		return new Response(rendered.body, { status: 503, headers });
+	}
+	void rendered?.body?.cancel();
+	if (event.request.headers.get('x-sveltekit-action') === 'true') {
+		headers.set('content-type', 'application/json');
+		return new Response(JSON.stringify({ type: 'error', status: 503, error: { message: DB_DOWN_MESSAGE } }), { status: 503, headers });
+	}
+	if (wantsJson(event) || event.url.pathname.endsWith('/__data.json')) {
+		headers.set('content-type', 'application/json');
+		return new Response(JSON.stringify({ message: DB_DOWN_MESSAGE }), { status: 503, headers });
+	}
+	headers.set('content-type', 'text/html; charset=utf-8');
+	return new Response(databaseDownPage(event.url.pathname + event.url.search), { status: 503, headers });
+}
+
+/**
+ * A stopped database answers 503 (page or JSON), never a 500 or a hung request: errors thrown while
+ * reading the session land in the catch; errors in loads, actions and endpoints reach handleError,
+ * which marks the request, and their 500 is replaced here.
+ */
 const databaseDown: Handle = async ({ event, resolve }) => {
 	try {
 		const response = await resolve(event);
-		if (response.status === 500 && (event.locals as { dbDown?: boolean }).dbDown) {
-			const headers = new Headers(response.headers);
-			headers.set('retry-after', '5');
-			return new Response(response.body, { status: 503, headers });
-		}
+		if (response.status === 500 && (event.locals as { dbDown?: boolean }).dbDown) return databaseDownResponse(event, response);
 		return response;
 	} catch (err) {
 		if (!isDatabaseDownError(err)) throw err;
-		const wantsJson =
-			event.url.pathname.startsWith('/api/') ||
-			(event.request.headers.get('accept') ?? '').includes('application/json');
-		return wantsJson
-			? new Response(JSON.stringify({ message: DB_DOWN_MESSAGE }), {
-					status: 503,
-					headers: { 'content-type': 'application/json', 'retry-after': '5' }
-				})
-			: new Response(
-					`<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Traywise — try again shortly</title></head><body style="font-family:sans-serif;padding:2rem"><h1>Traywise is catching its breath</h1><p>${DB_DOWN_MESSAGE}</p></body></html>`,
-					{ status: 503, headers: { 'content-type': 'text/html; charset=utf-8', 'retry-after': '5' } }
-				);
+		return databaseDownResponse(event);
 	}
 };
 

@@ -22,7 +22,11 @@ export function uniqueEmail(prefix = 'user'): string {
 	return `${prefix}-${Date.now()}-${addressCounter++}@test.traywise.test`;
 }
 
-export function client(cookie = ''): Client {
+/**
+ * A client of the app at `base` (default APP_URL). Every app process behind a load balancer shares
+ * one public origin, so the Origin header is always APP_URL's, whichever process answers.
+ */
+export function client(cookie = '', base = BASE): Client {
 	const headers = (extra?: HeadersInit) => {
 		const h = new Headers(extra);
 		if (cookie) h.set('cookie', cookie);
@@ -31,9 +35,9 @@ export function client(cookie = ''): Client {
 	};
 	return {
 		cookie,
-		get: (path, init) => fetch(BASE + path, { redirect: 'manual', ...init, headers: headers(init?.headers) }),
+		get: (path, init) => fetch(base + path, { redirect: 'manual', ...init, headers: headers(init?.headers) }),
 		post: (path, body, init) =>
-			fetch(BASE + path, {
+			fetch(base + path, {
 				method: 'POST',
 				redirect: 'manual',
 				...init,
@@ -43,7 +47,7 @@ export function client(cookie = ''): Client {
 		action: (path, fields) => {
 			const form = new URLSearchParams();
 			for (const [k, v] of Object.entries(fields)) for (const one of [v].flat()) form.append(k, one);
-			return fetch(BASE + path, {
+			return fetch(base + path, {
 				method: 'POST',
 				redirect: 'manual',
 				headers: headers({ 'content-type': 'application/x-www-form-urlencoded', accept: 'text/html' }),
@@ -54,15 +58,15 @@ export function client(cookie = ''): Client {
 }
 
 /** Signs in through the real /login form action; returns the session cookie or null. */
-export async function signInCookie(email: string, password = DEMO_PASSWORD): Promise<string | null> {
-	const res = await client().action('/login', { email, password });
+export async function signInCookie(email: string, password = DEMO_PASSWORD, base = BASE): Promise<string | null> {
+	const res = await client('', base).action('/login', { email, password });
 	const set = res.headers.getSetCookie().find((c) => c.startsWith('traywise_session='));
 	if (res.status !== 303 || !set) return null;
 	return set.split(';')[0];
 }
 
-export async function signIn(email: string, password = DEMO_PASSWORD): Promise<Client> {
-	const cookie = await signInCookie(email, password);
+export async function signIn(email: string, password = DEMO_PASSWORD, base = BASE): Promise<Client> {
+	const cookie = await signInCookie(email, password, base);
 	if (!cookie) throw new Error(`could not sign in as ${email}`);
-	return client(cookie);
+	return client(cookie, base);
 }

@@ -34,14 +34,11 @@ export const signInThrottle = {
 		return Math.max(0, wait);
 	},
 	async recordFailure(keys: string[]): Promise<void> {
+		// one statement: records the failure and keeps the table small
 		await sequelize.query(
-			`INSERT INTO sign_in_failures (key) SELECT unnest(ARRAY[:keys]::text[])`,
-			{ replacements: { keys } }
-		);
-		// keep the table small
-		await sequelize.query(
-			`DELETE FROM sign_in_failures WHERE at < now() - make_interval(mins => :window * 4)`,
-			{ replacements: { window: SIGN_IN_LIMITS.windowMinutes } }
+			`WITH old AS (DELETE FROM sign_in_failures WHERE at < now() - make_interval(mins => :window * 4))
+			 INSERT INTO sign_in_failures (key) SELECT unnest(ARRAY[:keys]::text[])`,
+			{ replacements: { keys, window: SIGN_IN_LIMITS.windowMinutes } }
 		);
 	},
 	async clear(key: string): Promise<void> {

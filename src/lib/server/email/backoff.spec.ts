@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { decideRetry, retryDelayMs } from './backoff';
+import { decideRetry, relayUnreachable, retryDelayMs } from './backoff';
 
 const defaults = { baseMs: 5_000, maxMs: 600_000 };
 
@@ -41,5 +41,24 @@ describe('decideRetry', () => {
 	it('gives up once the attempt limit is reached', () => {
 		expect(decideRetry(4, undefined, options).retry).toBe(true);
 		expect(decideRetry(5, undefined, options)).toEqual({ retry: false });
+		// a relay that answered with a temporary refusal each time
+		expect(decideRetry(5, { responseCode: 451, code: 'EENVELOPE' }, options)).toEqual({ retry: false });
+	});
+
+	it('never gives up while the relay cannot be reached at all, and waits at most the cap between tries', () => {
+		// nodemailer's codes for a refused connection, a timeout, a dropped socket and a failed lookup
+		for (const code of ['ESOCKET', 'ECONNECTION', 'ETIMEDOUT', 'EDNS']) {
+			expect(decideRetry(5, { code }, options)).toEqual({ retry: true, delayMs: 80_000 });
+			expect(decideRetry(500, { code }, options)).toEqual({ retry: true, delayMs: 600_000 });
+		}
+	});
+
+	it('tells an unreachable relay from one that answered', () => {
+		expect(relayUnreachable({ code: 'ESOCKET' })).toBe(true);
+		expect(relayUnreachable({ code: 'ETIMEDOUT' })).toBe(true);
+		expect(relayUnreachable({ code: 'EAUTH', responseCode: 535 })).toBe(false);
+		expect(relayUnreachable({ code: 'EENVELOPE', responseCode: 451 })).toBe(false);
+		expect(relayUnreachable({ code: 'ETLS' })).toBe(false);
+		expect(relayUnreachable(undefined)).toBe(false);
 	});
 });

@@ -78,7 +78,7 @@ export async function deliverDueMail(overrides: Partial<MailWorkerOptions> = {})
 			try {
 				await send(mail);
 			} catch (err) {
-				const decision = decideRetry(mail.attempts, err as { responseCode?: number }, {
+				const decision = decideRetry(mail.attempts, err as { responseCode?: number; code?: string }, {
 					baseMs: o.retryBaseMs,
 					maxMs: o.retryMaxMs,
 					maxAttempts: o.maxAttempts

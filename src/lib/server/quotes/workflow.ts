@@ -6,7 +6,9 @@
 import { createHash } from 'node:crypto';
 import { QueryTypes, type Transaction } from 'sequelize';
 import { sequelize } from '../db';
+import { isBusyError } from '../db/bad-value';
 import type { SessionUser } from '../auth/types';
+import type { Permission } from '../auth/permissions';
 import type { EvaluateResult, ResolvedInput, SetupResult, EquipmentKind } from '../rules/types';
 import { getSurvey } from '../repositories/surveys';
 import { getActivePriceBook, getCompanySettings, getLogo, priceItems, taxRateFor } from '../repositories/pricing';
@@ -269,6 +271,49 @@ export interface DraftEdit {
 }
 
 /**
+ * The lines of an edit, priced from the quote's own price-book version (never from the browser).
+ * A SKU that is neither on the quote nor in its price book is refused.
+ */
+export async function linesFromEdit(
+	q: QuoteView,
+	edits: DraftEdit['lines']
+): Promise<{ ok: true; value: NewLine[] } | { ok: false; status: 400; message: string }> {
+	const current = new Map(q.lines.map((l) => [l.sku, l]));
+	const prices = await priceItems(q.revision.priceBookVersionId, edits.map((l) => l.sku));
+	const lines: NewLine[] = [];
+	for (const l of edits) {
+		const known = current.get(l.sku);
+		const p = prices.get(l.sku);
+		if (!known && !p) return { ok: false, status: 400, message: `“${l.sku}” is not in this quote's price book.` };
+		const unitList = p ? p.listCents : known!.unitListCents;
+		lines.push({
+			sku: l.sku,
+			description: known?.description ?? p!.description,
+			kind: known?.kind ?? p!.kind,
+			quantity: l.quantity,
+			unitListCents: unitList,
+			unitCostCents: p ? p.costCents : known!.unitCostCents,
+			lineDiscountBp: unitList === 0 ? 0 : l.lineDiscountBp,
+			noCharge: unitList === 0,
+			source: known?.source ?? 'accessory',
+			reason: known?.reason ?? 'Added by the rep.',
+			inPriceBook: !!p
+		});
+	}
+	return { ok: true, value: lines };
+}
+
+/** Which permission each staff action needs (the states module then decides on the quote itself). */
+export const ACTION_PERMISSION = {
+	submit: 'quote:submit',
+	'mark-ready': 'quote:submit',
+	approve: 'quote:approve',
+	'request-changes': 'quote:approve',
+	send: 'quote:send',
+	revise: 'quote:edit'
+} as const satisfies Record<string, Permission>;
+
+/**
  * Saves a draft's lines, discounts, tax region and notes. Prices always come from the quote's own
  * price-book version (never from the browser); unknown SKUs are refused.
  */
@@ -281,28 +326,9 @@ export async function saveDraft(quoteId: string, user: SessionUser, edit: DraftE
 		if (q.revision.state !== 'draft' && q.revision.state !== 'changes-requested') {
 			return { ok: false, status: 409, message: `A quote that is ${q.revision.state} cannot be edited. Revise it to make a new revision.` };
 		}
-		const current = new Map(q.lines.map((l) => [l.sku, l]));
-		const prices = await priceItems(q.revision.priceBookVersionId, edit.lines.map((l) => l.sku));
-		const lines: NewLine[] = [];
-		for (const l of edit.lines) {
-			const known = current.get(l.sku);
-			const p = prices.get(l.sku);
-			if (!known && !p) return { ok: false, status: 400, message: `“${l.sku}” is not in this quote's price book.` };
-			const unitList = p ? p.listCents : known!.unitListCents;
-			lines.push({
-				sku: l.sku,
-				description: known?.description ?? p!.description,
-				kind: known?.kind ?? p!.kind,
-				quantity: l.quantity,
-				unitListCents: unitList,
-				unitCostCents: p ? p.costCents : known!.unitCostCents,
-				lineDiscountBp: unitList === 0 ? 0 : l.lineDiscountBp,
-				noCharge: unitList === 0,
-				source: known?.source ?? 'accessory',
-				reason: known?.reason ?? 'Added by the rep.',
-				inPriceBook: !!p
-			});
-		}
+		const edited = await linesFromEdit(q, edit.lines);
+		if (!edited.ok) return edited;
+		const lines = edited.value;
 		let taxRateBp = q.revision.taxRateBp;
 		let taxLabel = q.revision.taxLabel;
 		if (edit.taxRegion !== q.revision.taxRegion) {
@@ -451,5 +477,15 @@ export async function act(
 		await notifyQuoteEvent({ quote: q, action, to: decision.to, comment: decision.record.comment, actor: actor.user, now, ...extra }, t);
 		return { ok: true, value: { state: decision.to, revisionId: rev.id, changed: true } };
 	};
-	return opts.transaction ? run(opts.transaction) : sequelize.transaction(run);
+	if (opts.transaction) return run(opts.transaction);
+	try {
+		// two people acting on one quote at once: the second waits a moment for the quote's lock
+		// (QUOTE_LOCK_WAIT_MS, set where getQuote locks it), then is told so
+		return await sequelize.transaction(run);
+	} catch (err) {
+		if (isBusyError(err)) {
+			return { ok: false, status: 409, message: 'Someone else is changing this quote right now. Try again in a moment.' };
+		}
+		throw err;
+	}
 }

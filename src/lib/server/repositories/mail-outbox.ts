@@ -26,12 +26,16 @@ export interface NewOutboxMail {
 
 /**
  * Inserts a queued message unless one with the same dedupe key exists; returns its id either way.
- * Runs inside `transaction` when given, so the message commits (or rolls back) with the caller's work.
+ * Runs inside `transaction` when given, so the message commits (or rolls back) with the caller's work;
+ * otherwise in its own, so a worker never sees a message without its attachments.
  */
 export async function insertOutboxMail(
 	input: NewOutboxMail,
 	transaction?: Transaction
 ): Promise<{ id: string; created: boolean }> {
+	if (!transaction && input.attachments.length > 0) {
+		return sequelize.transaction((own) => insertOutboxMail(input, own));
+	}
 	const id = randomUUID();
 	const inserted = await sequelize.query<{ id: string }>(
 		`INSERT INTO mail_outbox (id, kind, to_address, reply_to, subject, text, html, message_id, dedupe_key, related_type, related_id)

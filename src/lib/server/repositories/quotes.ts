@@ -188,18 +188,20 @@ export async function getQuote(
 		return { ok: false, status: 403 };
 	}
 	const revision = revisionRow(r);
-	const [lines, events, revisions] = await Promise.all([
-		sequelize.query<Record<string, unknown>>(
+	// one connection runs one statement at a time: inside a transaction, run them in turn
+	const run = <T>(fns: (() => Promise<T>)[]) => (t ? fns.reduce<Promise<T[]>>(async (acc, f) => [...(await acc), await f()], Promise.resolve([])) : Promise.all(fns.map((f) => f())));
+	const [lines, events, revisions] = await run<Record<string, unknown>[]>([
+		() => sequelize.query<Record<string, unknown>>(
 			`SELECT * FROM quote_lines WHERE revision_id = :rid ORDER BY position`,
 			{ replacements: { rid: revision.id }, type: QueryTypes.SELECT, transaction: t }
 		),
-		sequelize.query<Record<string, unknown>>(
+		() => sequelize.query<Record<string, unknown>>(
 			`SELECT e.action, e.from_state, e.to_state, u.name AS actor_name, e.actor_role, e.comment, e.at, qr.revision
 			 FROM quote_events e LEFT JOIN users u ON u.id = e.actor_id JOIN quote_revisions qr ON qr.id = e.revision_id
 			 WHERE e.quote_id = :id ORDER BY e.at, e.id`,
 			{ replacements: { id }, type: QueryTypes.SELECT, transaction: t }
 		),
-		sequelize.query<Record<string, unknown>>(
+		() => sequelize.query<Record<string, unknown>>(
 			`SELECT id, revision, number, state FROM quote_revisions WHERE quote_id = :id ORDER BY revision`,
 			{ replacements: { id }, type: QueryTypes.SELECT, transaction: t }
 		)

@@ -1,4 +1,5 @@
 import { Op, UniqueConstraintError, fn, col, where as sqlWhere } from 'sequelize';
+import { sequelize } from '../db';
 import { Team, User, Session } from '../db/models';
 import { dummyPasswordHash, hashPassword, verifyPassword } from '../auth/password';
 import type { Role, SessionUser } from '../auth/types';
@@ -86,21 +87,33 @@ export async function createUser(input: {
 	}
 }
 
-/** Changes role, team or active flag; deactivating ends every session of the user at once. */
+/**
+ * Changes role, team or active flag; deactivating ends every session of the user at once (one
+ * transaction: a deactivated user never keeps a session).
+ */
 export async function updateUser(input: { id: string; role: Role; teamId: string | null; active: boolean }): Promise<boolean> {
-	const [count] = await User.update(
-		{ role: input.role, teamId: input.teamId, active: input.active },
-		{ where: { id: input.id } }
-	);
-	if (!input.active) await Session.destroy({ where: { userId: input.id } });
-	return count > 0;
+	return sequelize.transaction(async (transaction) => {
+		const [count] = await User.update(
+			{ role: input.role, teamId: input.teamId, active: input.active },
+			{ where: { id: input.id }, transaction }
+		);
+		if (!input.active) await Session.destroy({ where: { userId: input.id }, transaction });
+		return count > 0;
+	});
 }
 
-/** Sets a new password and signs the user out everywhere (except, optionally, one session hash). */
+/**
+ * Sets a new password and signs the user out everywhere (except, optionally, one session hash), in
+ * one transaction: the old sessions never outlive the old password.
+ */
 export async function changePassword(userId: string, password: string, keepSessionHash?: string): Promise<void> {
-	await User.update({ passwordHash: await hashPassword(password) }, { where: { id: userId } });
-	await Session.destroy({
-		where: keepSessionHash ? { userId, id: { [Op.ne]: keepSessionHash } } : { userId }
+	const passwordHash = await hashPassword(password);
+	await sequelize.transaction(async (transaction) => {
+		await User.update({ passwordHash }, { where: { id: userId }, transaction });
+		await Session.destroy({
+			where: keepSessionHash ? { userId, id: { [Op.ne]: keepSessionHash } } : { userId },
+			transaction
+		});
 	});
 }
 

@@ -5,7 +5,7 @@ import { quoteActionSchema, quoteEditSchema } from '$lib/schemas/quote';
 import { getQuote } from '$lib/server/repositories/quotes';
 import { getCompanySettings, listTaxRates } from '$lib/server/repositories/pricing';
 import { allowedActions } from '$lib/server/quotes/states';
-import { act, figures, saveDraft } from '$lib/server/quotes/workflow';
+import { ACTION_PERMISSION, act, figures, saveDraft } from '$lib/server/quotes/workflow';
 import { deliveryTrail } from '$lib/server/quotes/trail';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -68,15 +68,7 @@ export const actions: Actions = {
 		const user = requirePermission(event, 'quote:read');
 		const parsed = quoteActionSchema.safeParse(Object.fromEntries(await event.request.formData()));
 		if (!parsed.success) return fail(400, { error: 'Unknown action.' });
-		const needed = {
-			submit: 'quote:submit',
-			'mark-ready': 'quote:submit',
-			approve: 'quote:approve',
-			'request-changes': 'quote:approve',
-			send: 'quote:send',
-			revise: 'quote:edit'
-		} as const;
-		if (!can(user.role, needed[parsed.data.action])) return fail(403, { error: 'Your role does not allow this.' });
+		if (!can(user.role, ACTION_PERMISSION[parsed.data.action])) return fail(403, { error: 'Your role does not allow this.' });
 		const done = await act(event.params.id, { user, role: user.role }, parsed.data.action, { comment: parsed.data.comment });
 		if (!done.ok) return fail(done.status, { error: done.message });
 		redirect(303, `/quotes/${event.params.id}`);

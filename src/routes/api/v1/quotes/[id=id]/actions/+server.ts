@@ -3,19 +3,10 @@ import { requirePermission } from '$lib/server/auth/guard';
 import { can } from '$lib/server/auth/permissions';
 import { quoteActionSchema } from '$lib/schemas/quote';
 import { fieldErrors } from '$lib/server/evaluation';
-import { act } from '$lib/server/quotes/workflow';
+import { ACTION_PERMISSION, act } from '$lib/server/quotes/workflow';
 import { getQuote } from '$lib/server/repositories/quotes';
 import { readJsonBody } from '$lib/server/json-body';
 import type { RequestHandler } from './$types';
-
-const NEEDED = {
-	submit: 'quote:submit',
-	'mark-ready': 'quote:submit',
-	approve: 'quote:approve',
-	'request-changes': 'quote:approve',
-	send: 'quote:send',
-	revise: 'quote:edit'
-} as const;
 
 /** The quote's state and history (JSON). */
 export const GET: RequestHandler = async (event) => {
@@ -33,7 +24,7 @@ export const POST: RequestHandler = async (event) => {
 	if (!body.ok) return body.response;
 	const parsed = quoteActionSchema.safeParse(body.value);
 	if (!parsed.success) return json({ message: 'Unknown action.', errors: fieldErrors(parsed.error.issues) }, { status: 400 });
-	if (!can(user.role, NEEDED[parsed.data.action])) return json({ message: 'Your role does not allow this.' }, { status: 403 });
+	if (!can(user.role, ACTION_PERMISSION[parsed.data.action])) return json({ message: 'Your role does not allow this.' }, { status: 403 });
 	const done = await act(event.params.id, { user, role: user.role }, parsed.data.action, { comment: parsed.data.comment });
 	if (!done.ok) return json({ message: done.message }, { status: done.status });
 	return json(done.value);
