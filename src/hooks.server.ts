@@ -4,7 +4,7 @@ import { sequence } from '@sveltejs/kit/hooks';
 import { lucia } from '$lib/server/auth/lucia';
 import { building } from '$app/environment';
 import { isDatabaseDownError, queryCounter, sequelize } from '$lib/server/db';
-import { BAD_VALUE_MESSAGE, isBadValueError } from '$lib/server/db/bad-value';
+import { BAD_VALUE_MESSAGE, BUSY_MESSAGE, isBadValueError, isBusyError } from '$lib/server/db/bad-value';
 import { startInAppMailWorker } from '$lib/server/email/worker';
 
 export const init: ServerInit = async () => {
@@ -170,11 +170,15 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-/** A value PostgreSQL refused (see handleError) is the sender's mistake: 400, not 500. */
+/**
+ * A value PostgreSQL refused is the sender's mistake (400), and a row busy with another change a
+ * conflict to retry (409): neither is a server fault (see handleError).
+ */
 const badValue: Handle = async ({ event, resolve }) => {
 	const response = await resolve(event);
-	if (response.status === 500 && (event.locals as { badValue?: boolean }).badValue) {
-		return new Response(response.body, { status: 400, headers: new Headers(response.headers) });
+	const status = (event.locals as { refusedStatus?: number }).refusedStatus;
+	if (response.status === 500 && status) {
+		return new Response(response.body, { status, headers: new Headers(response.headers) });
 	}
 	return response;
 };
@@ -202,8 +206,12 @@ export const handleError: HandleServerError = ({ error, event, status }) => {
 	}
 	if (status !== 404) console.error(`[traywise] ${errorId}`, event.url.pathname, error);
 	if (isBadValueError(error)) {
-		(event.locals as { badValue?: boolean }).badValue = true;
+		(event.locals as { refusedStatus?: number }).refusedStatus = 400;
 		return { message: BAD_VALUE_MESSAGE, errorId };
+	}
+	if (isBusyError(error)) {
+		(event.locals as { refusedStatus?: number }).refusedStatus = 409;
+		return { message: BUSY_MESSAGE, errorId };
 	}
 	return { message: status === 404 ? 'Not found.' : 'Something went wrong on our side.', errorId };
 };

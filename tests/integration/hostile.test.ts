@@ -11,7 +11,7 @@ import { buildQuote, chosenSurvey, demoIds, quoteLines, quoteState } from '../he
 import { mailedQuoteToken } from '../helpers/customer-link';
 import { makePng } from '../helpers/images';
 import { sequelize } from '$lib/server/db';
-import { isBadValueError } from '$lib/server/db/bad-value';
+import { isBadValueError, isBusyError } from '$lib/server/db/bad-value';
 import {
 	allPriceItems,
 	createDraftVersion,
@@ -1003,6 +1003,55 @@ describe('the net behind the schemas', () => {
 			isBadValueError(Object.assign(new Error('connect ECONNREFUSED'), { code: 'ECONNREFUSED' }))
 		).toBe(false);
 		expect(isBadValueError(null)).toBe(false);
+	});
+
+	it('classes a row held by another change past the lock timeout as busy (409), and nothing else', async () => {
+		const holder = await sequelize.transaction();
+		try {
+			await sequelize.query(`SELECT id FROM quotes WHERE id = :id FOR UPDATE`, {
+				replacements: { id: quoteId },
+				transaction: holder
+			});
+			const waiter = await sequelize.transaction();
+			let err: unknown = null;
+			try {
+				await sequelize.query(`SET LOCAL lock_timeout = '200ms'`, { transaction: waiter });
+				await sequelize.query(`SELECT id FROM quotes WHERE id = :id FOR UPDATE`, {
+					replacements: { id: quoteId },
+					transaction: waiter
+				});
+			} catch (e) {
+				err = e;
+			} finally {
+				await waiter.rollback();
+			}
+			expect(isBusyError(err)).toBe(true);
+			expect(isBadValueError(err)).toBe(false);
+		} finally {
+			await holder.rollback();
+		}
+		expect(isBusyError(Object.assign(new Error('x'), { code: '22P02' }))).toBe(false);
+	});
+
+	it('answers a change to a quote held by another change with 409 after a short wait, not a 500 or a hang', async () => {
+		const holder = await sequelize.transaction();
+		try {
+			await sequelize.query(`SELECT id FROM quote_revisions WHERE quote_id = :id FOR UPDATE`, {
+				replacements: { id: quoteId },
+				transaction: holder
+			});
+			const started = Date.now();
+			const res = await rep.post(`/api/v1/quotes/${quoteId}/actions`, { action: 'submit' });
+			const waited = Date.now() - started;
+			expect(res.status).toBe(409);
+			expect((await res.json()).message).toMatch(/Someone else is changing this (quote )?right now/);
+			// QUOTE_LOCK_WAIT_MS (3 s) in src/lib/server/repositories/quotes.ts, well inside the 8 s statement timeout
+			expect(waited).toBeGreaterThanOrEqual(2_900);
+			expect(waited).toBeLessThan(7_000);
+		} finally {
+			await holder.rollback();
+		}
+		expect(await quoteState(quoteId)).toBe('draft');
 	});
 });
 

@@ -678,6 +678,37 @@ describe('sign-in throttling (counted in PostgreSQL)', () => {
 		expect(await failures(`email:${email}`)).toBe(0);
 	});
 
+	it('counts wrong current passwords on /account against the same limit, so a borrowed session cannot guess', async () => {
+		const email = uniqueEmail('guesser');
+		await createUser({
+			name: 'Borrowed Session',
+			email,
+			role: 'rep',
+			teamId: null,
+			password: 'the-real-password-1'
+		});
+		const c = await signIn(email, 'the-real-password-1');
+		const change = (current: string) =>
+			c.action('/account?/password', {
+				current,
+				next: 'a-new-password-12',
+				repeat: 'a-new-password-12'
+			});
+		for (let i = 1; i <= 8; i++)
+			expect((await change(`guess-${i}`)).status, `guess ${i}`).toBe(400);
+		expect(await failures(`email:${email}`)).toBe(8);
+		const ninth = await change('the-real-password-1');
+		expect(ninth.status).toBe(429);
+		expect(await ninth.text()).toContain(
+			'Too many wrong passwords. Wait 15 minutes and try again.'
+		);
+		expect(await signInCookie(email, 'the-real-password-1')).toBeNull();
+		await sequelize.query(`DELETE FROM sign_in_failures WHERE key = :key`, {
+			replacements: { key: `email:${email}` }
+		});
+		expect((await change('the-real-password-1')).status).toBe(200);
+	});
+
 	it(`refuses every e-mail from one address after ${SIGN_IN_LIMITS.perAddress} failures from it`, async () => {
 		const email = uniqueEmail('address');
 		expect((await client().action('/login', { email, password: 'wrong' })).status).toBe(400);

@@ -211,7 +211,8 @@ export type ResolvedEvaluateRequest = Omit<EvaluateRequest, 'truck' | 'battery'>
  * client evidently meant are given (the one that does not complain of unknown keys).
  */
 export function evaluateFieldErrors(error: z.ZodError): Record<string, string[]> {
-	const out: Record<string, string[]> = {};
+	// no prototype: a field named "__proto__" is a field like any other
+	const out: Record<string, string[]> = Object.create(null);
 	const add = (path: readonly PropertyKey[], message: string) => {
 		const key = path.map(String).join('.') || '(body)';
 		(out[key] ??= []).push(message);

@@ -12,7 +12,8 @@ export type EvaluationOutcome =
 
 /** zod issues as `{ "site.palletTrucks.0.forkLengthMm": ["…"] }` */
 export function fieldErrors(issues: readonly { path: readonly PropertyKey[]; message: string }[]): FieldErrors {
-	const out: FieldErrors = {};
+	// no prototype: a field named "__proto__" is a field like any other
+	const out: FieldErrors = Object.create(null);
 	for (const issue of issues) {
 		const key = issue.path.map(String).join('.') || '(body)';
 		(out[key] ??= []).push(issue.message);

@@ -6,6 +6,7 @@
 import { createHash } from 'node:crypto';
 import { QueryTypes, type Transaction } from 'sequelize';
 import { sequelize } from '../db';
+import { isBusyError } from '../db/bad-value';
 import type { SessionUser } from '../auth/types';
 import type { Permission } from '../auth/permissions';
 import type { EvaluateResult, ResolvedInput, SetupResult, EquipmentKind } from '../rules/types';
@@ -361,14 +362,6 @@ export async function saveDraft(quoteId: string, user: SessionUser, edit: DraftE
 
 const FAR_FUTURE = new Date('9999-12-31T23:59:59Z');
 
-/** how long an action waits for another action on the same quote (less than the statement timeout) */
-const ACT_LOCK_TIMEOUT_MS = 3_000;
-
-function pgCode(err: unknown): string {
-	const e = err as { original?: { code?: string }; parent?: { code?: string }; code?: string };
-	return e?.original?.code ?? e?.parent?.code ?? e?.code ?? '';
-}
-
 /** The dealer block of the PDF, from the company settings. */
 export async function pdfSettings(): Promise<PdfSettings> {
 	const [s, logo] = await Promise.all([getCompanySettings(), getLogo()]);
@@ -486,13 +479,11 @@ export async function act(
 	};
 	if (opts.transaction) return run(opts.transaction);
 	try {
-		return await sequelize.transaction(async (t) => {
-			// two people acting on one quote at once: the second waits a moment, then is told so
-			await sequelize.query(`SET LOCAL lock_timeout = '${ACT_LOCK_TIMEOUT_MS}ms'`, { transaction: t });
-			return run(t);
-		});
+		// two people acting on one quote at once: the second waits a moment for the quote's lock
+		// (QUOTE_LOCK_WAIT_MS, set where getQuote locks it), then is told so
+		return await sequelize.transaction(run);
 	} catch (err) {
-		if (pgCode(err) === '55P03') {
+		if (isBusyError(err)) {
 			return { ok: false, status: 409, message: 'Someone else is changing this quote right now. Try again in a moment.' };
 		}
 		throw err;

@@ -148,6 +148,9 @@ const REVISION_COLUMNS = `qr.id, qr.quote_id, qr.revision, qr.number, qr.state, 
 	qr.totals, qr.approval_required, qr.approval_reasons, qr.valid_until, qr.sent_at, (qr.pdf IS NOT NULL) AS has_pdf,
 	qr.pdf_sha256, qr.created_at, qr.updated_at`;
 
+/** How long a change waits for another change of the same quote to finish, ms. */
+export const QUOTE_LOCK_WAIT_MS = 3_000;
+
 export type Access<T> = { ok: true; value: T } | { ok: false; status: 403 | 404 };
 
 /**
@@ -160,6 +163,9 @@ export async function getQuote(
 	opts: { revision?: number; transaction?: Transaction; lock?: boolean } = {}
 ): Promise<Access<QuoteView>> {
 	const t = opts.transaction;
+	// another request holding the quote waits its turn for a moment, then gets a clear "busy" (409)
+	// rather than queueing up to the statement timeout
+	if (opts.lock) await sequelize.query(`SET LOCAL lock_timeout = '${QUOTE_LOCK_WAIT_MS}ms'`, { transaction: t });
 	const rows = await sequelize.query<Record<string, unknown>>(
 		`SELECT q.id AS q_id, q.survey_id, q.customer_id, c.name AS customer_name, q.site_id, st.name AS site_name,
 		        st.address_line1, st.address_line2, st.city, st.postal_code, st.country, st.region_code,
