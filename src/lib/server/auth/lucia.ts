@@ -1,7 +1,8 @@
 import { createHash } from 'node:crypto';
 import { Lucia, TimeSpan, type Adapter, type DatabaseSession, type DatabaseUser } from 'lucia';
-import { Op } from 'sequelize';
-import { Session, User } from '../db/models';
+import { Op, QueryTypes } from 'sequelize';
+import { sequelize } from '../db';
+import { Session, type Role, type UnitSystem } from '../db/models';
 import { config } from '../config';
 
 /** Sessions are stored by the SHA-256 of their token; the token itself lives only in the cookie. */
@@ -9,32 +10,46 @@ export function hashToken(token: string): string {
 	return createHash('sha256').update(token).digest('hex');
 }
 
-function toDatabaseUser(user: User): DatabaseUser {
-	return {
-		id: user.id,
-		attributes: {
-			email: user.email,
-			name: user.name,
-			role: user.role,
-			teamId: user.teamId ?? null,
-			unitSystem: user.unitSystem,
-			active: user.active
-		}
-	};
+interface SessionUserRow {
+	user_id: string;
+	expires_at: Date | string;
+	email: string;
+	name: string;
+	role: Role;
+	team_id: string | null;
+	unit_system: UnitSystem;
 }
 
 /** lucia 3's adapter interface, over the Sequelize models (no lucia-specific tables). */
 class SequelizeAdapter implements Adapter {
+	/**
+	 * Every signed-in request runs this, so it is one indexed join returning plain rows (no model
+	 * instances): the session by its hash and its user, only while the user is active.
+	 */
 	async getSessionAndUser(
 		sessionId: string
 	): Promise<[DatabaseSession | null, DatabaseUser | null]> {
-		const session = await Session.findByPk(hashToken(sessionId));
-		if (!session) return [null, null];
-		const user = await User.findByPk(session.userId);
-		if (!user || !user.active) return [null, null];
+		const rows = await sequelize.query<SessionUserRow>(
+			`SELECT s.user_id, s.expires_at, u.email, u.name, u.role, u.team_id, u.unit_system
+			   FROM sessions s JOIN users u ON u.id = s.user_id
+			  WHERE s.id = :id AND u.active`,
+			{ replacements: { id: hashToken(sessionId) }, type: QueryTypes.SELECT }
+		);
+		const row = rows[0];
+		if (!row) return [null, null];
 		return [
-			{ id: sessionId, userId: session.userId, expiresAt: session.expiresAt, attributes: {} },
-			toDatabaseUser(user)
+			{ id: sessionId, userId: row.user_id, expiresAt: new Date(row.expires_at), attributes: {} },
+			{
+				id: row.user_id,
+				attributes: {
+					email: row.email,
+					name: row.name,
+					role: row.role,
+					teamId: row.team_id,
+					unitSystem: row.unit_system,
+					active: true
+				}
+			}
 		];
 	}
 	async getUserSessions(userId: string): Promise<DatabaseSession[]> {
