@@ -52,11 +52,16 @@ export const postgres = {
 	async isReady(): Promise<boolean> {
 		return (await run('pg_isready', ['-h', SOCKET, '-p', PORT, '-q'], 5_000)).code === 0;
 	},
-	/** Fast shutdown: open sessions are ended and their transactions rolled back. */
-	async stop(): Promise<void> {
+	/**
+	 * Stops the server. `fast` (the default) ends every session and rolls its transaction back, but
+	 * in whatever order the backends see the signal: a session waiting on another's row lock can be
+	 * let through and commit in the moment between the two. `immediate` stops every process at once,
+	 * as a crash or a pulled plug does (nothing commits after it; the next start recovers from WAL).
+	 */
+	async stop(mode: 'fast' | 'immediate' = 'fast'): Promise<void> {
 		const { code, output } = await run(
 			'pg_ctl',
-			['-D', DATA, '-m', 'fast', '-w', '-t', '30', 'stop'],
+			['-D', DATA, '-m', mode, '-w', '-t', '30', 'stop'],
 			40_000
 		);
 		if (code !== 0) throw new Error(`pg_ctl stop failed (${code}): ${output}`);

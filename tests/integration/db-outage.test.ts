@@ -433,7 +433,9 @@ describe('PostgreSQL stopped and started again under the running app', () => {
 
 			// ---- the database goes away ----
 			const stoppedAt = Date.now();
-			await postgres.stop();
+			// all at once, like a crash: a fast shutdown may end the locking session first and let a
+			// waiting write commit just before its own session is ended (seen once in a suite run)
+			await postgres.stop('immediate');
 			const interrupted = await Promise.all(Object.values(inFlight));
 			for (const r of interrupted) expect(r.ms, r.what).toBeLessThan(HANG_MS);
 			const [build, revise, save, autosave, customer, hook, deactivated] = interrupted;
