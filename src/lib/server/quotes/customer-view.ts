@@ -5,10 +5,10 @@ import { isPastValidity } from './states';
 import { priceLine, type LineKind } from './pricing';
 
 /**
- * Opens a customer link: 404 for a token never issued, 410 for a superseded revision or an expired
- * quote (saying only that), else the link and the quote. Reveals nothing else.
+ * Checks a customer link: 404 for a token never issued, 410 for a superseded revision or an expired
+ * quote (saying only that), else the link. Reveals nothing else.
  */
-export async function openLink(token: string, now = new Date()): Promise<{ link: ResolvedLink; quote: QuoteView }> {
+export async function checkLink(token: string, now = new Date()): Promise<ResolvedLink> {
 	const link = await resolveLink(token);
 	if (!link) error(404, { message: 'This link is not valid. Check that it was copied whole from the e-mail.', kind: 'invalid' });
 	if (link.revision < link.latestRevision) {
@@ -17,7 +17,13 @@ export async function openLink(token: string, now = new Date()): Promise<{ link:
 	if (link.state === 'expired' || (isPastValidity(now, link.expiresAt) && !['accepted', 'deposit-paid'].includes(link.state))) {
 		error(410, { message: 'This quote has passed its validity date. Ask your sales contact for a fresh one.', kind: 'expired' });
 	}
-	const found = await getQuote(link.quoteId, null, { revision: link.revision });
+	return link;
+}
+
+/** A checked link with its quote revision and lines (the customer never sees the quote's history). */
+export async function openLink(token: string, now = new Date()): Promise<{ link: ResolvedLink; quote: QuoteView }> {
+	const link = await checkLink(token, now);
+	const found = await getQuote(link.quoteId, null, { revision: link.revision, history: false });
 	if (!found.ok) error(404, { message: 'This link is not valid.', kind: 'invalid' });
 	return { link, quote: found.value };
 }

@@ -1,4 +1,4 @@
-import { Op, col, fn, where as sqlWhere, type Transaction, type WhereOptions } from 'sequelize';
+import { Op, col, fn, literal, where as sqlWhere, type Transaction, type WhereOptions } from 'sequelize';
 import { sequelize } from '../db';
 import { Battery, Equipment, TruckModel, TruckModelBattery } from '../db/models';
 import type { BatteryInput, EquipmentInput, TruckModelInput } from '../../schemas/catalogue';
@@ -83,19 +83,22 @@ function equipmentRow(e: Equipment): EquipmentRow {
 
 /** Truck models with their compatible battery ids; retired ones only when asked. */
 export async function listTruckModels(opts: { includeRetired?: boolean } = {}): Promise<TruckModelRow[]> {
-	const [trucks, links] = await Promise.all([
-		TruckModel.findAll({
-			where: opts.includeRetired ? {} : { retired: false },
-			order: [['family', 'ASC'], ['capacityKg', 'ASC']]
-		}),
-		TruckModelBattery.findAll()
-	]);
-	return trucks.map((t) =>
-		truckRow(
-			t,
-			links.filter((l) => l.truckModelId === t.id).map((l) => l.batteryId)
-		)
-	);
+	// one statement: each model with its compatible battery ids (every survey page reads this)
+	const trucks = await TruckModel.findAll({
+		where: opts.includeRetired ? {} : { retired: false },
+		order: [['family', 'ASC'], ['capacityKg', 'ASC']],
+		attributes: {
+			include: [
+				[
+					literal(
+						`ARRAY(SELECT l.battery_id FROM truck_model_batteries l WHERE l.truck_model_id = "TruckModel"."id")`
+					),
+					'batteryIds'
+				]
+			]
+		}
+	});
+	return trucks.map((t) => truckRow(t, (t.get('batteryIds') as string[] | null) ?? []));
 }
 
 export async function listBatteries(opts: { includeRetired?: boolean } = {}): Promise<BatteryRow[]> {

@@ -154,15 +154,17 @@ export const QUOTE_LOCK_WAIT_MS = 3_000;
 export type Access<T> = { ok: true; value: T } | { ok: false; status: 403 | 404 };
 
 /**
- * A quote with one revision (the latest unless `revisionNumber` is given), its lines, its history and
- * its revision list: four queries whatever the number of lines.
+ * A quote with one revision (the latest unless `revision` is given), its lines, its history and its
+ * revision list: four queries whatever the number of lines; two with `history: false` (events and
+ * revisions then come back empty: the customer's page shows neither).
  */
 export async function getQuote(
 	id: string,
 	viewer: SessionUser | null,
-	opts: { revision?: number; transaction?: Transaction; lock?: boolean } = {}
+	opts: { revision?: number; transaction?: Transaction; lock?: boolean; history?: boolean } = {}
 ): Promise<Access<QuoteView>> {
 	const t = opts.transaction;
+	const history = opts.history ?? true;
 	// another request holding the quote waits its turn for a moment, then gets a clear "busy" (409)
 	// rather than queueing up to the statement timeout
 	if (opts.lock) await sequelize.query(`SET LOCAL lock_timeout = '${QUOTE_LOCK_WAIT_MS}ms'`, { transaction: t });
@@ -195,13 +197,13 @@ export async function getQuote(
 			`SELECT * FROM quote_lines WHERE revision_id = :rid ORDER BY position`,
 			{ replacements: { rid: revision.id }, type: QueryTypes.SELECT, transaction: t }
 		),
-		() => sequelize.query<Record<string, unknown>>(
+		() => !history ? Promise.resolve([]) : sequelize.query<Record<string, unknown>>(
 			`SELECT e.action, e.from_state, e.to_state, u.name AS actor_name, e.actor_role, e.comment, e.at, qr.revision
 			 FROM quote_events e LEFT JOIN users u ON u.id = e.actor_id JOIN quote_revisions qr ON qr.id = e.revision_id
 			 WHERE e.quote_id = :id ORDER BY e.at, e.id`,
 			{ replacements: { id }, type: QueryTypes.SELECT, transaction: t }
 		),
-		() => sequelize.query<Record<string, unknown>>(
+		() => !history ? Promise.resolve([]) : sequelize.query<Record<string, unknown>>(
 			`SELECT id, revision, number, state FROM quote_revisions WHERE quote_id = :id ORDER BY revision`,
 			{ replacements: { id }, type: QueryTypes.SELECT, transaction: t }
 		)

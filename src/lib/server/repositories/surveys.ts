@@ -239,6 +239,15 @@ export async function customerChoices(): Promise<CustomerChoice[]> {
 	return [...byId.values()];
 }
 
+/** The sites of one customer, for a survey's site step. */
+export async function sitesOfCustomer(customerId: string): Promise<CustomerChoice['sites']> {
+	const rows = await sequelize.query<{ id: string; name: string; city: string | null }>(
+		`SELECT id, name, city FROM sites WHERE customer_id = :customerId ORDER BY name`,
+		{ replacements: { customerId }, type: QueryTypes.SELECT }
+	);
+	return rows.map((r) => ({ id: r.id, name: r.name ?? '', city: r.city }));
+}
+
 export async function siteBelongsToCustomer(siteId: string, customerId: string): Promise<boolean> {
 	const rows = await sequelize.query(`SELECT 1 FROM sites WHERE id = :siteId AND customer_id = :customerId`, {
 		replacements: { siteId, customerId },

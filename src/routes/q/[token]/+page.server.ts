@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { sequelize } from '$lib/server/db';
 import { config } from '$lib/server/config';
 import { act } from '$lib/server/quotes/workflow';
-import { customerSafe, openLink } from '$lib/server/quotes/customer-view';
+import { checkLink, customerSafe, openLink } from '$lib/server/quotes/customer-view';
 import { acceptanceOf, recordAcceptance, resolveLink } from '$lib/server/quotes/customer-links';
 import { sendFreshLink } from '$lib/server/quotes/fresh-link';
 import { getCompanySettings } from '$lib/server/repositories/pricing';
@@ -38,7 +38,7 @@ export const load: PageServerLoad = async ({ params, setHeaders }) => {
 
 export const actions: Actions = {
 	accept: async ({ params, request, getClientAddress }) => {
-		const { link } = await openLink(params.token);
+		const link = await checkLink(params.token);
 		const form = Object.fromEntries(await request.formData());
 		const parsed = acceptSchema.safeParse(form);
 		if (!parsed.success) {

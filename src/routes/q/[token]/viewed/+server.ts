@@ -1,5 +1,5 @@
 import { act } from '$lib/server/quotes/workflow';
-import { openLink } from '$lib/server/quotes/customer-view';
+import { checkLink } from '$lib/server/quotes/customer-view';
 import type { RequestHandler } from './$types';
 
 /**
@@ -7,7 +7,7 @@ import type { RequestHandler } from './$types';
  * so a link checker fetching the e-mail's link does not count as a view. Marks "viewed" once.
  */
 export const POST: RequestHandler = async ({ params }) => {
-	const { link } = await openLink(params.token);
+	const link = await checkLink(params.token);
 	await act(link.quoteId, { user: null, role: 'customer' }, 'view', { revisionId: link.revisionId });
 	return new Response(null, { status: 204 });
 };
