@@ -1,5 +1,6 @@
 import PDFDocument from 'pdfkit';
 import { formatMoney, formatBp } from '../../money';
+import { quoteDate } from '../../format';
 import { formatAirFlow, formatArea, formatLength, formatMass } from '../../units';
 import { compartmentScene } from '../../drawing/compartment';
 import { drawCompartmentScene } from './drawing';
@@ -35,10 +36,6 @@ function figure(value: number | null, unit: string): string {
 	return `${Number.isInteger(value) ? value : value.toFixed(2)} ${unit}`;
 }
 
-function dateText(iso: string | null, timeZone: string): string {
-	if (!iso) return '—';
-	return new Date(iso).toLocaleDateString('en-US', { year: 'numeric', month: 'long', day: 'numeric', timeZone });
-}
 
 /**
  * The customer's quote document: dealer and customer, site summary, the chosen setup and why, the
@@ -101,7 +98,7 @@ export async function buildQuotePdf(view: QuoteView, settings: PdfSettings): Pro
 	doc.font('Bold').fontSize(18).fillColor(TIDE).text('Quote', MARGIN + W / 2, top, { width: W / 2, align: 'right' });
 	doc.font('Semi').fontSize(11).fillColor(INK).text(rev.number, { width: W / 2, align: 'right' });
 	doc.font('Body').fontSize(9).fillColor(MUTED).text(
-		[`Revision ${rev.revision}`, `Sent ${dateText(rev.sentAt, tz)}`, `Valid until ${dateText(rev.validUntil, tz)}`, `Prepared by ${printable(view.ownerName)}`].join('\n'),
+		[`Revision ${rev.revision}`, `Sent ${quoteDate(rev.sentAt, tz)}`, `Valid until ${quoteDate(rev.validUntil, tz)}`, `Prepared by ${printable(view.ownerName)}`].join('\n'),
 		{ width: W / 2, align: 'right' }
 	);
 	doc.y = Math.max(leftBottom, doc.y) + 10;
@@ -210,7 +207,7 @@ export async function buildQuotePdf(view: QuoteView, settings: PdfSettings): Pro
 	totalRow('Total', money(t.totalCents), true);
 	totalRow(`Deposit due on acceptance (${formatBp(t.depositShareBp)})`, money(t.depositCents), true);
 	totalRow('Balance due on delivery', money(t.balanceCents));
-	para(`This quote is valid until ${dateText(rev.validUntil, tz)}. Prices from price book ${printable(rev.priceBookLabel)}.`);
+	para(`This quote is valid until ${quoteDate(rev.validUntil, tz)}. Prices from price book ${printable(rev.priceBookLabel)}.`);
 	if (rev.notes) {
 		heading('Notes');
 		para(rev.notes);

@@ -32,7 +32,8 @@ export const load: PageServerLoad = async ({ params, setHeaders }) => {
 		quote: customerSafe(quote),
 		acceptance,
 		dealer: { name: settings.dealerName, address: settings.address, phone: settings.phone, email: settings.email },
-		currency: settings.currency ?? 'USD'
+		currency: settings.currency ?? 'USD',
+		timeZone: settings.timeZone || 'UTC'
 	};
 };
 

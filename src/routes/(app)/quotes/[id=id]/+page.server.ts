@@ -34,7 +34,8 @@ export const load: PageServerLoad = async (event) => {
 		seeCost: can(user.role, 'quote:see-cost'),
 		policy: { repDiscountAuthorityBp: settings.repDiscountAuthorityBp, marginFloorBp: settings.marginFloorBp },
 		taxRates,
-		trail
+		trail,
+		timeZone: settings.timeZone || 'UTC'
 	};
 };
 
