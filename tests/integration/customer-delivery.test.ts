@@ -1,4 +1,8 @@
+import { execFileSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
+import { writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { QueryTypes } from 'sequelize';
 import { simpleParser } from 'mailparser';
@@ -84,6 +88,32 @@ describe('the customer link', () => {
 		expect(await quoteState(quoteId)).toBe('viewed');
 		const pdf = await client().get(`/q/${token}/pdf`);
 		expect(pdf.headers.get('content-type')).toBe('application/pdf');
+	});
+
+	it('names the same days on the page, in the PDF and in the e-mail: the dealer’s calendar, not the reader’s', async () => {
+		// a zone whose calendar day differs from UTC's right now (UTC+14 or UTC−11: 25 hours apart)
+		const utcDay = new Date().toISOString().slice(0, 10);
+		const dayIn = (tz: string) => new Intl.DateTimeFormat('en-CA', { timeZone: tz }).format(new Date());
+		const zone = ['Pacific/Kiritimati', 'Pacific/Pago_Pago'].find((tz) => dayIn(tz) !== utcDay)!;
+		const [before] = await q<{ time_zone: string }>(`SELECT time_zone FROM company_settings WHERE id = 1`, {});
+		await sequelize.query(`UPDATE company_settings SET time_zone = :zone WHERE id = 1`, { replacements: { zone } });
+		try {
+			const { token, mailId } = await sentQuote();
+			const sentDay = new Intl.DateTimeFormat('en-US', { timeZone: zone, year: 'numeric', month: 'long', day: 'numeric' }).format(new Date());
+			const html = await (await client().get(`/q/${token}`)).text();
+			const pageValid = /Valid until ([A-Z][a-z]+ \d{1,2}, \d{4})/.exec(html)?.[1];
+			expect(html).toContain(`sent ${sentDay}`);
+			const file = path.join(tmpdir(), `tw-dates-${token.slice(0, 8)}.pdf`);
+			writeFileSync(file, Buffer.from(await (await client().get(`/q/${token}/pdf`)).arrayBuffer()));
+			const pdf = execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
+			expect(pdf).toContain(`Sent ${sentDay}`);
+			expect(pageValid).toBeTruthy();
+			expect(pdf).toContain(`Valid until ${pageValid}`);
+			const [mail] = await q<{ raw: Buffer }>(`SELECT raw FROM caught_mail WHERE id = :id`, { id: mailId });
+			expect((await simpleParser(mail.raw)).text).toContain(pageValid);
+		} finally {
+			await sequelize.query(`UPDATE company_settings SET time_zone = :zone WHERE id = 1`, { replacements: { zone: before.time_zone } });
+		}
 	});
 
 	it('an expired link gets 410', async () => {
