@@ -6,6 +6,7 @@ import {
 	MM_PER_IN,
 	formatAirFlow,
 	formatArea,
+	formatOpening,
 	formatInput,
 	formatLength,
 	formatMass,
@@ -200,6 +201,10 @@ describe('formatting shows both systems', () => {
 		// 40 m² ÷ 0.09290304 = 430.56 ft²
 		expect(formatArea(40)).toBe('40.0 m² (431 ft²)');
 		expect(formatArea(40, 'imperial')).toBe('431 ft² (40.0 m²)');
+		// natural-ventilation opening for 20.46 m³/h: 28 × 20.46 = 572.9 cm² (EN IEC 62485-2/-3 worked
+		// example); ÷ 6.4516 cm²/in² (1 in = 2.54 cm exactly) = 88.8 in², by hand
+		expect(formatOpening(572.9)).toBe('573 cm² (89 in²)');
+		expect(formatOpening(3437.3, 'imperial')).toBe('533 in² (3 437 cm²)');
 	});
 
 	it('input values round-trip through the parsers', () => {

@@ -397,6 +397,14 @@ export function formatAirFlow(
 }
 
 /** "40.0 m² (431 ft²)"; input in m². */
+/** 1 in² = 6.4516 cm² exactly (1 in = 2.54 cm) */
+export const CM2_PER_IN2 = 6.4516;
+
+/** A ventilation opening in cm² and in², the user's system first. */
+export function formatOpening(cm2: number, system: UnitSystem = 'metric', opts?: FormatOptions): string {
+	return pair(`${formatNumber(cm2, 0)} cm²`, `${formatNumber(cm2 / CM2_PER_IN2, 0, ',')} in²`, system, opts);
+}
+
 export function formatArea(
 	m2: number,
 	system: UnitSystem = 'metric',

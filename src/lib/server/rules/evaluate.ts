@@ -100,7 +100,9 @@ function ventilationResult(ctx: Ctx, setup: SetupResult): VentilationResult {
 	} else {
 		basis = `EN IEC 62485-3: Q = ${ctx.p.ventilationCoefficient} × ${gas.cells} cells × ${num(gas.gasCurrentA)} A gas current (f = ${num(gas.gasFactor)} for an ${profile} charger × ${num(ctx.battery.capacityAh)} Ah ÷ 100) = ${num(gas.perBatteryM3h)} m³/h per battery on charge, × ${n} charging at once (${setup.name}) = ${num(required)} m³/h.`;
 		if (nfpa !== null) {
-			basis += ` NFPA 1 asks 1 cfm per ft² of floor instead: ${num(nfpa)} m³/h for ${num(area!.floorAreaM2, 1)} m².`;
+			// NFPA 1 §52.3.6 gives two routes: a design keeping hydrogen at or under 1 % of the room, or a
+			// flat 1 cfm per ft² of floor. The flow above is the first kind; the local authority picks.
+			basis += ` Where NFPA 1 is the fire code it accepts either a design that keeps hydrogen at or under 1 % of the room (what this flow is for) or a flat 1 cfm per ft² of floor: ${num(nfpa)} m³/h for ${num(area!.floorAreaM2, 1)} m²; the authority having jurisdiction decides which.`;
 		}
 	}
 	return {
