@@ -3,6 +3,7 @@ import type { Handle, HandleServerError, RequestEvent, ServerInit } from '@svelt
 import { sequence } from '@sveltejs/kit/hooks';
 import { lucia } from '$lib/server/auth/lucia';
 import { building } from '$app/environment';
+import '$lib/schemas/messages';
 import { isDatabaseDownError, queryCounter, sequelize } from '$lib/server/db';
 import { BAD_VALUE_MESSAGE, BUSY_MESSAGE, isBadValueError, isBusyError } from '$lib/server/db/bad-value';
 import { startInAppMailWorker } from '$lib/server/email/worker';

@@ -117,6 +117,22 @@ describe('roles', () => {
 		expect(await User.count()).toBe(before);
 	});
 
+	it('answers a name that is too long with a plain message, and creates no one', async () => {
+		const admin = await signIn(DEMO.admin);
+		const before = await User.count();
+		const res = await admin.action('/admin/users?/create', {
+			name: 'N'.repeat(121),
+			email: uniqueEmail('long-name'),
+			role: 'rep',
+			password: 'a-long-password-4'
+		});
+		expect(res.status).toBe(400);
+		const html = await res.text();
+		expect(html).toContain('Keep this to 120 characters or fewer.');
+		expect(html).not.toMatch(/Too big|expected string/);
+		expect(await User.count()).toBe(before);
+	});
+
 	it('lets an admin read the user list without password hashes', async () => {
 		const admin = await signIn(DEMO.admin);
 		const res = await admin.get('/api/v1/admin/users');
