@@ -103,11 +103,18 @@ describe('a bad price book names every problem, and nothing is imported', () => 
 			'Row 1: column 2 of the header has no name'
 		]);
 	});
-	it('prices that are not plain decimal dollars', () => {
+	it('prices written as the price forms accept them: thousands commas and a dollar sign', () => {
+		const got = items(`${HEADER}\nA-1,One,truck,"34,600.00","$1,234.5"\nA-2,Two,truck,$5.00,0007\n`);
+		expect(got.map((i) => [i.listCents, i.costCents])).toEqual([
+			[3_460_000, 123_450],
+			[500, 700]
+		]);
+	});
+	it('prices that are not dollars and cents', () => {
 		const text = [
 			HEADER,
 			'A-1,One,truck,"12,50",1',
-			'A-2,Two,truck,$5.00,1',
+			'A-2,Two,truck,"1,23,4.00",1',
 			'A-3,Three,truck,1.005,1',
 			'A-4,Four,truck,-5,1',
 			'A-5,Five,truck,1e3,1',
@@ -117,7 +124,7 @@ describe('a bad price book names every problem, and nothing is imported', () => 
 		].join('\n');
 		expect(messages(text)).toEqual([
 			'Row 2: list_price "12,50" is not a price like 1234.50',
-			'Row 3: list_price "$5.00" is not a price like 1234.50',
+			'Row 3: list_price "1,23,4.00" is not a price like 1234.50',
 			'Row 4: list_price "1.005" is not a price like 1234.50',
 			'Row 5: list_price "-5" is not a price like 1234.50',
 			'Row 6: list_price "1e3" is not a price like 1234.50',

@@ -13,11 +13,12 @@
  * - `sku`: 1–64 characters of letters, digits and `. _ - /`; unique in the file, ignoring case;
  * - `description`: 1–200 characters on one line;
  * - `kind`: one of the quote line kinds (pricing.ts), any letter case;
- * - `list_price`, `cost`: decimal dollars such as `1234.50`, `1234.5` or `1234` — digits, an
- *   optional point and at most two decimals, nothing else (no sign, no `$`, no thousands
- *   separator) — converted to cents digit by digit, never through a float.
+ * - `list_price`, `cost`: dollars such as `1234.50`, `1234.5`, `1234`, `1,234.50` or `$1,234.50` —
+ *   digits (thousands in groups of three), an optional point and at most two decimals, no sign —
+ *   read as the price forms read them (`parseMoney`), to cents digit by digit, never through a float.
  * Spaces around a field are ignored.
  */
+import { parseMoney } from '../../money';
 import { parseCsv } from './csv';
 import { LINE_KINDS, type LineKind } from './pricing';
 
@@ -53,21 +54,20 @@ export const MAX_DESCRIPTION_LENGTH = 200;
 export const MAX_PRICE_CENTS = 9_999_999_999;
 
 const SKU = /^[A-Za-z0-9._\-/]+$/;
-const PRICE = /^(\d+)(?:\.(\d{1,2}))?$/;
 // C0 and C1 control characters, including line breaks and tabs
 // eslint-disable-next-line no-control-regex
 const CONTROL = /[\u0000-\u001f\u007f-\u009f]/;
 
 /**
- * Decimal dollars → cents, digit by digit; null when the text is not a price like 1234.50.
- * Beyond MAX_PRICE_CENTS the answer is only known to be too large: it comes back as Infinity.
+ * Dollars → cents, exactly, by the same rule as the price forms (`parseMoney`): `1234.50`, `1234`,
+ * `1,234.50` (thousands in groups of three, as spreadsheets export them) and a leading `$`; null
+ * when the text is not such a price. Beyond MAX_PRICE_CENTS it comes back as Infinity.
  */
 function parsePriceCents(text: string): number | null {
-	const match = PRICE.exec(text);
-	if (!match) return null;
-	const dollars = match[1].replace(/^0+(?=\d)/, '');
-	if (dollars.length > 12) return Number.POSITIVE_INFINITY;
-	return Number(dollars) * 100 + Number((match[2] ?? '').padEnd(2, '0'));
+	if (!/^\$?[\d,]*(\.\d*)?$/.test(text)) return null; // no spaces, signs or exponents inside a cell
+	const parsed = parseMoney(text);
+	if (!parsed.ok) return /too large/.test(parsed.message) ? Number.POSITIVE_INFINITY : null;
+	return parsed.cents;
 }
 
 function quoted(value: string): string {
