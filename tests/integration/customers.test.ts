@@ -1,5 +1,8 @@
+import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO, client, signIn, type Client } from '../helpers/http';
+import { buildQuote, chosenSurvey, demoIds } from '../helpers/scenario';
+import { QueryTypes } from 'sequelize';
 import { sequelize } from '$lib/server/db';
 import { User } from '$lib/server/db/models';
 import { Contact, Customer, Site } from '$lib/server/db/models/customers';
@@ -313,5 +316,47 @@ describe('GET /api/v1/customers', () => {
 		const action = await client().action('/customers/new', { name: 'Signed out', accountNumber: '', notes: '' });
 		expect(action.status).toBe(303);
 		expect(await Customer.count()).toBe(before);
+	});
+});
+
+describe('a customer’s page shows the work for that customer', () => {
+	it('lists the rep’s surveys and quotes for the customer, starts a survey at a site, and hides another team’s work', async () => {
+		const ids = await demoIds();
+		const surveyId = await chosenSurvey(rep);
+		const quoteId = await buildQuote(rep, surveyId);
+		const [{ number }] = await sequelize.query<{ number: string }>(
+			`SELECT number FROM quote_revisions WHERE quote_id = :quoteId`,
+			{ replacements: { quoteId }, type: QueryTypes.SELECT }
+		);
+
+		const page = await rep.get(`/customers/${ids.customerId}`);
+		expect(page.status).toBe(200);
+		const html = await page.text();
+		expect(html).toContain(`/surveys/${surveyId}/recommendation`);
+		expect(html).toContain(`/quotes/${quoteId}`);
+		expect(html).toContain(number);
+		expect(html).toContain('Start a survey here');
+
+		// the form on a site card starts a survey for that customer and site, once for a double tap
+		const token = randomUUID();
+		const first = await rep.action('/surveys?/start', { customerId: ids.customerId, siteId: ids.siteId, clientToken: token });
+		const again = await rep.action('/surveys?/start', { customerId: ids.customerId, siteId: ids.siteId, clientToken: token });
+		expect(first.status).toBe(303);
+		expect(again.headers.get('location')).toBe(first.headers.get('location'));
+		const started = /\/surveys\/([0-9a-f-]{36})\/site$/.exec(first.headers.get('location')!)![1];
+		const [row] = await sequelize.query<{ customer_id: string; site_id: string }>(
+			`SELECT customer_id, site_id FROM surveys WHERE id = :started`,
+			{ replacements: { started }, type: QueryTypes.SELECT }
+		);
+		expect(row).toEqual({ customer_id: ids.customerId, site_id: ids.siteId });
+
+		// a rep of another team sees the customer but none of this team's surveys or quotes
+		const other = await signIn(DEMO.rep2);
+		const theirs = await (await other.get(`/customers/${ids.customerId}`)).text();
+		expect(theirs).not.toContain(surveyId);
+		expect(theirs).not.toContain(quoteId);
+		// an admin manages customers but does not run surveys: no start button
+		const admin = await signIn(DEMO.admin);
+		expect(await (await admin.get(`/customers/${ids.customerId}`)).text()).not.toContain('Start a survey here');
 	});
 });

@@ -373,6 +373,8 @@ export interface QuoteFilters {
 	state?: string;
 	owner?: string;
 	customer?: string;
+	/** one customer's quotes, by id */
+	customerId?: string;
 	from?: string;
 	to?: string;
 	sort?: 'updated' | 'created' | 'total' | 'customer' | 'number';
@@ -409,6 +411,10 @@ export async function listQuotes(viewer: SessionUser, f: QuoteFilters = {}): Pro
 	if (f.customer) {
 		where.push('c.name ILIKE :customer');
 		rep.customer = `%${f.customer.replace(/[%_\\]/g, (m) => '\\' + m)}%`;
+	}
+	if (f.customerId) {
+		where.push('q.customer_id = :customerId');
+		rep.customerId = f.customerId;
 	}
 	if (f.from) {
 		where.push('q.created_at >= :from::date');

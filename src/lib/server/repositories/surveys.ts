@@ -126,7 +126,7 @@ export async function createSurvey(input: {
 /** Surveys the viewer may see (own and team's for a rep, all for managers and admins), newest first. */
 export async function listSurveys(
 	viewer: SessionUser,
-	opts: { q?: string; page?: number; pageSize?: number } = {}
+	opts: { q?: string; customerId?: string; page?: number; pageSize?: number } = {}
 ): Promise<{ rows: SurveySummary[]; total: number }> {
 	const pageSize = opts.pageSize ?? 25;
 	const page = Math.max(1, opts.page ?? 1);
@@ -136,6 +136,10 @@ export async function listSurveys(
 		where.push(viewer.teamId ? '(s.owner_id = :me OR s.team_id = :team)' : 's.owner_id = :me');
 		replacements.me = viewer.id;
 		replacements.team = viewer.teamId;
+	}
+	if (opts.customerId) {
+		where.push('s.customer_id = :customerId');
+		replacements.customerId = opts.customerId;
 	}
 	if (opts.q) {
 		where.push('(c.name ILIKE :q OR st.name ILIKE :q OR st.city ILIKE :q)');

@@ -1,0 +1,17 @@
+/** Names people read for the survey steps and the four setups (the ids are stored). */
+export const STEP_LABELS: Record<string, string> = {
+	site: 'Site and contact',
+	fleet: 'Trucks and battery',
+	operation: 'Operation',
+	equipment: 'Existing equipment',
+	charging: 'Charging area',
+	notes: 'Photos and notes',
+	review: 'Review'
+};
+
+export const SETUP_LABELS: Record<string, string> = {
+	'in-truck': 'Service in truck',
+	'roller-bed': 'Side transfer',
+	'trolley-stand': 'Trolley exchange',
+	'overhead-hoist': 'Hoist exchange'
+};
