@@ -234,6 +234,68 @@ function checkSpec<T>(
 
 export type ReadResult<T> = { ok: true; value: T } | { ok: false; errors: Errors };
 
+type PathField = FieldInfo & { path: readonly string[] };
+
+/**
+ * Reads each typed spec field into its place in `spec`. A field that cannot be read gets its
+ * message and a stand-in value, and is named in `unread` (see `checkSpec`).
+ */
+function readSpecFields<F extends PathField>(
+	fields: readonly F[],
+	form: Record<F['name'], string>,
+	system: UnitSystem,
+	spec: Record<string, unknown>,
+	errors: Errors,
+	unread: Set<string>
+) {
+	for (const field of fields) {
+		const r = readField(field, form[field.name as F['name']], system);
+		setPath(spec, field.path, r.ok ? r.value : UNREAD);
+		if (!r.ok) {
+			addError(errors, field.name, r.message);
+			unread.add(field.name);
+		}
+	}
+}
+
+/** The text of each spec field, from its place in a stored spec. */
+function specFieldTexts(
+	fields: readonly PathField[],
+	spec: unknown,
+	system: UnitSystem
+): Record<string, string> {
+	const texts: Record<string, string> = {};
+	for (const field of fields) {
+		let node: unknown = spec;
+		for (const key of field.path) node = (node as Record<string, unknown> | undefined)?.[key];
+		texts[field.name] = fieldText(field, typeof node === 'number' ? node : null, system);
+	}
+	return texts;
+}
+
+/** Reads the list price and the cost into cents; null (with the messages in `errors`) if not. */
+function readPrices(
+	form: { price: string; cost: string },
+	errors: Errors
+): { priceCents: number; costCents: number } | null {
+	const price = readMoney(form.price, 'the list price');
+	if (!price.ok) addError(errors, 'price', price.message);
+	const cost = readMoney(form.cost, 'the cost');
+	if (!cost.ok) addError(errors, 'cost', cost.message);
+	return price.ok && cost.ok ? { priceCents: price.cents, costCents: cost.cents } : null;
+}
+
+/** A form schema whose refinement reads the whole form and puts each error on its flat field. */
+function readingSchema<S extends z.ZodObject>(
+	base: S,
+	read: (form: z.infer<S>) => ReadResult<unknown>
+): S {
+	return base.superRefine((form, ctx) => {
+		const r = read(form);
+		if (!r.ok) report(ctx, r.errors);
+	});
+}
+
 // ---------------------------------------------------------------------------------------------
 // Shared fields
 
@@ -253,25 +315,30 @@ export const codeSchema = (what: string) =>
 			`The ${what} must not look like an id; choose a shorter one.`
 		);
 
-const nameSchema = (what: string) =>
+/** One line of plain text, up to `max` characters. */
+const lineSchema = (what: string, max: number) =>
 	z
 		.string()
 		.trim()
 		.min(1, `Enter the ${what}.`)
-		.max(120, `Keep the ${what} to 120 characters.`)
+		.max(max, `Keep the ${what} to ${max} characters.`)
 		// one line of text: the database layer would store a NUL as the two characters "\0"
 		// eslint-disable-next-line no-control-regex
 		.refine((s) => !/[\u0000-\u001f\u007f]/.test(s), `The ${what} must be one line of plain text.`);
 
+const nameSchema = (what: string) => lineSchema(what, 120);
+
 /** a typed value; read and checked by the form's refinement */
 const typed = z.string().max(60, 'This is too long to be a value.').default('');
+
+/** A typed value for each spec field. */
+const typedFields = <N extends string>(fields: readonly { name: N }[]) =>
+	Object.fromEntries(fields.map((f) => [f.name, typed])) as Record<N, typeof typed>;
 
 const money = { price: typed, cost: typed };
 
 // ---------------------------------------------------------------------------------------------
 // Truck models
-
-type PathField = FieldInfo & { path: readonly string[] };
 
 /** Every field of a truck model's spec, in form order, with the spec path it fills. */
 export const TRUCK_SPEC_FIELDS = [
@@ -403,7 +470,7 @@ export const TRUCK_SPEC_FIELDS = [
 export type TruckSpecFieldName = (typeof TRUCK_SPEC_FIELDS)[number]['name'];
 const TRUCK_BY_PATH = pathIndex(TRUCK_SPEC_FIELDS);
 
-export const CAPACITY_FIELD: FieldInfo = {
+export const CAPACITY_FIELD: FieldInfo & { name: 'capacity' } = {
 	name: 'capacity',
 	kind: 'mass',
 	noun: 'the rated capacity',
@@ -426,11 +493,6 @@ export const catalogueTruckSpecSchema = truckSpecSchema
 		path: ['wideDoorSwingDeg']
 	});
 
-const truckFields = Object.fromEntries(TRUCK_SPEC_FIELDS.map((f) => [f.name, typed])) as Record<
-	TruckSpecFieldName,
-	typeof typed
->;
-
 /** What a valid truck model form gives the repository. */
 export interface TruckModelInput {
 	code: string;
@@ -448,16 +510,10 @@ const truckFormBase = z.object({
 	units: unitSystemSchema.default('metric'),
 	code: codeSchema('model code'),
 	name: nameSchema('model name'),
-	family: z
-		.string()
-		.trim()
-		.min(1, 'Enter the family.')
-		.max(60, 'Keep the family to 60 characters.')
-		// eslint-disable-next-line no-control-regex
-		.refine((s) => !/[\u0000-\u001f\u007f]/.test(s), 'The family must be one line of plain text.'),
+	family: lineSchema('family', 60),
 	capacity: typed,
 	...money,
-	...truckFields,
+	...typedFields(TRUCK_SPEC_FIELDS),
 	batteryIds: z.array(z.string().max(60)).max(200, 'Choose at most 200 batteries.').default([])
 });
 export type TruckForm = z.infer<typeof truckFormBase>;
@@ -468,14 +524,7 @@ export function readTruckForm(form: TruckForm): ReadResult<TruckModelInput> {
 	const errors: Errors = {};
 	const spec: Record<string, unknown> = {};
 	const unread = new Set<string>();
-	for (const field of TRUCK_SPEC_FIELDS) {
-		const r = readField(field, form[field.name], system);
-		setPath(spec, field.path, r.ok ? r.value : UNREAD);
-		if (!r.ok) {
-			addError(errors, field.name, r.message);
-			unread.add(field.name);
-		}
-	}
+	readSpecFields(TRUCK_SPEC_FIELDS, form, system, spec, errors, unread);
 	let capacityKg = 0;
 	const cap = readField(CAPACITY_FIELD, form.capacity, system);
 	if (!cap.ok) addError(errors, 'capacity', cap.message);
@@ -490,10 +539,7 @@ export function readTruckForm(form: TruckForm): ReadResult<TruckModelInput> {
 			);
 		}
 	}
-	const price = readMoney(form.price, 'the list price');
-	if (!price.ok) addError(errors, 'price', price.message);
-	const cost = readMoney(form.cost, 'the cost');
-	if (!cost.ok) addError(errors, 'cost', cost.message);
+	const prices = readPrices(form, errors);
 	if (form.batteryIds.some((id) => !UUID_SHAPE.test(id))) {
 		addError(errors, 'batteryIds', 'Choose batteries from the list.');
 	}
@@ -507,9 +553,7 @@ export function readTruckForm(form: TruckForm): ReadResult<TruckModelInput> {
 		errors,
 		system
 	);
-	if (Object.keys(errors).length > 0 || !parsedSpec || !price.ok || !cost.ok) {
-		return { ok: false, errors };
-	}
+	if (Object.keys(errors).length > 0 || !parsedSpec || !prices) return { ok: false, errors };
 	return {
 		ok: true,
 		value: {
@@ -517,8 +561,7 @@ export function readTruckForm(form: TruckForm): ReadResult<TruckModelInput> {
 			name: form.name.trim(),
 			family: form.family.trim(),
 			capacityKg,
-			priceCents: price.cents,
-			costCents: cost.cents,
+			...prices,
 			spec: parsedSpec,
 			batteryIds: [...new Set(form.batteryIds)]
 		}
@@ -526,10 +569,7 @@ export function readTruckForm(form: TruckForm): ReadResult<TruckModelInput> {
 }
 
 /** The truck model form: flat fields, checked with the engine's truck schema. */
-export const truckFormSchema = truckFormBase.superRefine((form, ctx) => {
-	const r = readTruckForm(form);
-	if (!r.ok) report(ctx, r.errors);
-});
+export const truckFormSchema = readingSchema(truckFormBase, readTruckForm);
 
 /** A stored truck model as the text of its form, in the user's unit system. */
 export function truckFormValues(
@@ -545,7 +585,7 @@ export function truckFormValues(
 	},
 	system: UnitSystem
 ): TruckForm {
-	const values: Record<string, unknown> = {
+	return {
 		units: system,
 		code: row.code,
 		name: row.name,
@@ -553,14 +593,9 @@ export function truckFormValues(
 		capacity: fieldText(CAPACITY_FIELD, row.capacityKg, system),
 		price: moneyText(row.priceCents),
 		cost: moneyText(row.costCents),
-		batteryIds: [...row.batteryIds]
-	};
-	for (const field of TRUCK_SPEC_FIELDS) {
-		let node: unknown = row.spec;
-		for (const key of field.path) node = (node as Record<string, unknown> | undefined)?.[key];
-		values[field.name] = fieldText(field, typeof node === 'number' ? node : null, system);
-	}
-	return values as TruckForm;
+		batteryIds: [...row.batteryIds],
+		...specFieldTexts(TRUCK_SPEC_FIELDS, row.spec, system)
+	} as TruckForm;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -629,18 +664,13 @@ export interface BatteryInput {
 	spec: CatalogueBatterySpec;
 }
 
-const batteryFields = Object.fromEntries(BATTERY_SPEC_FIELDS.map((f) => [f.name, typed])) as Record<
-	BatterySpecFieldName,
-	typeof typed
->;
-
 const batteryFormBase = z.object({
 	units: unitSystemSchema.default('metric'),
 	code: codeSchema('battery code'),
 	name: nameSchema('battery name'),
 	chemistry: z.string().max(40).default('lead-acid'),
 	...money,
-	...batteryFields
+	...typedFields(BATTERY_SPEC_FIELDS)
 });
 export type BatteryForm = z.infer<typeof batteryFormBase>;
 
@@ -649,23 +679,13 @@ export function readBatteryForm(form: BatteryForm): ReadResult<BatteryInput> {
 	const errors: Errors = {};
 	const spec: Record<string, unknown> = { chemistry: form.chemistry };
 	const unread = new Set<string>();
-	for (const field of BATTERY_SPEC_FIELDS) {
-		const r = readField(field, form[field.name], system);
-		setPath(spec, field.path, r.ok ? r.value : UNREAD);
-		if (!r.ok) {
-			addError(errors, field.name, r.message);
-			unread.add(field.name);
-		}
-	}
+	readSpecFields(BATTERY_SPEC_FIELDS, form, system, spec, errors, unread);
 	if (!chemistrySchema.safeParse(form.chemistry).success) {
 		addError(errors, 'chemistry', 'Choose lead-acid or lithium-ion.');
 		// said here in plain words; the schema's own message is dropped
 		unread.add('chemistry');
 	}
-	const price = readMoney(form.price, 'the list price');
-	if (!price.ok) addError(errors, 'price', price.message);
-	const cost = readMoney(form.cost, 'the cost');
-	if (!cost.ok) addError(errors, 'cost', cost.message);
+	const prices = readPrices(form, errors);
 	const parsedSpec = checkSpec(
 		batterySpecSchema,
 		spec,
@@ -675,25 +695,15 @@ export function readBatteryForm(form: BatteryForm): ReadResult<BatteryInput> {
 		errors,
 		system
 	);
-	if (Object.keys(errors).length > 0 || !parsedSpec || !price.ok || !cost.ok)
-		return { ok: false, errors };
+	if (Object.keys(errors).length > 0 || !parsedSpec || !prices) return { ok: false, errors };
 	return {
 		ok: true,
-		value: {
-			code: form.code.trim(),
-			name: form.name.trim(),
-			priceCents: price.cents,
-			costCents: cost.cents,
-			spec: parsedSpec
-		}
+		value: { code: form.code.trim(), name: form.name.trim(), ...prices, spec: parsedSpec }
 	};
 }
 
 /** The battery form: flat fields, checked with the engine's battery schema. */
-export const batteryFormSchema = batteryFormBase.superRefine((form, ctx) => {
-	const r = readBatteryForm(form);
-	if (!r.ok) report(ctx, r.errors);
-});
+export const batteryFormSchema = readingSchema(batteryFormBase, readBatteryForm);
 
 export function batteryFormValues(
 	row: {
@@ -705,19 +715,15 @@ export function batteryFormValues(
 	},
 	system: UnitSystem
 ): BatteryForm {
-	const values: Record<string, unknown> = {
+	return {
 		units: system,
 		code: row.code,
 		name: row.name,
 		chemistry: row.spec.chemistry,
 		price: moneyText(row.priceCents),
-		cost: moneyText(row.costCents)
-	};
-	for (const field of BATTERY_SPEC_FIELDS) {
-		const v = (row.spec as unknown as Record<string, unknown>)[field.path[0]];
-		values[field.name] = fieldText(field, typeof v === 'number' ? v : null, system);
-	}
-	return values as BatteryForm;
+		cost: moneyText(row.costCents),
+		...specFieldTexts(BATTERY_SPEC_FIELDS, row.spec, system)
+	} as BatteryForm;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -974,10 +980,7 @@ function isEditableKind(kind: string): kind is EditableEquipmentKind {
 export function readEquipmentForm(form: EquipmentForm): ReadResult<EquipmentInput> {
 	const system = form.units;
 	const errors: Errors = {};
-	const price = readMoney(form.price, 'the list price');
-	if (!price.ok) addError(errors, 'price', price.message);
-	const cost = readMoney(form.cost, 'the cost');
-	if (!cost.ok) addError(errors, 'cost', cost.message);
+	const prices = readPrices(form, errors);
 	if (!isEditableKind(form.kind)) {
 		addError(errors, 'kind', 'Choose a kind of equipment from the list.');
 		return { ok: false, errors };
@@ -1081,26 +1084,15 @@ export function readEquipmentForm(form: EquipmentForm): ReadResult<EquipmentInpu
 		errors,
 		system
 	);
-	if (Object.keys(errors).length > 0 || !parsedSpec || !price.ok || !cost.ok)
-		return { ok: false, errors };
+	if (Object.keys(errors).length > 0 || !parsedSpec || !prices) return { ok: false, errors };
 	return {
 		ok: true,
-		value: {
-			sku: form.sku.trim(),
-			kind,
-			name: form.name.trim(),
-			priceCents: price.cents,
-			costCents: cost.cents,
-			spec: parsedSpec
-		}
+		value: { sku: form.sku.trim(), kind, name: form.name.trim(), ...prices, spec: parsedSpec }
 	};
 }
 
 /** The equipment form: flat fields; the kind's spec is checked with its schema above. */
-export const equipmentFormSchema = equipmentFormBase.superRefine((form, ctx) => {
-	const r = readEquipmentForm(form);
-	if (!r.ok) report(ctx, r.errors);
-});
+export const equipmentFormSchema = readingSchema(equipmentFormBase, readEquipmentForm);
 
 export function equipmentFormValues(
 	row: {

@@ -1,14 +1,14 @@
 import { requirePermission } from '$lib/server/auth/guard';
+import { listQuery } from '$lib/server/catalogue-admin';
 import { listBatteries, listTruckModels } from '$lib/server/repositories/catalogue';
 import type { PageServerLoad } from './$types';
 
-const STATUSES = ['all', 'active', 'retired'] as const;
 const CHEMISTRIES = ['lead-acid', 'lithium-ion'] as const;
 
 export const load: PageServerLoad = async (event) => {
 	const user = requirePermission(event, 'admin:catalogue');
 	const q = event.url.searchParams;
-	const status = STATUSES.find((s) => s === q.get('status')) ?? 'all';
+	const { status, deleted, shown } = listQuery(q);
 	const chemistry = CHEMISTRIES.find((c) => c === q.get('chemistry')) ?? '';
 	const [batteries, trucks] = await Promise.all([
 		listBatteries({ includeRetired: true }),
@@ -18,11 +18,11 @@ export const load: PageServerLoad = async (event) => {
 		unitSystem: user.unitSystem,
 		status,
 		chemistry,
-		deleted: q.get('deleted')?.slice(0, 60) ?? null,
+		deleted,
 		total: batteries.length,
 		batteries: batteries
 			.filter((b) => (chemistry ? b.spec.chemistry === chemistry : true))
-			.filter((b) => (status === 'all' ? true : status === 'retired' ? b.retired : !b.retired))
+			.filter(shown)
 			.map((b) => ({
 				id: b.id,
 				code: b.code,

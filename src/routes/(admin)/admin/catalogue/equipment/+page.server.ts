@@ -1,15 +1,14 @@
 import { requirePermission } from '$lib/server/auth/guard';
+import { listQuery } from '$lib/server/catalogue-admin';
 import { KIND_LABELS } from '$lib/server/rules/catalogue';
 import { listEquipment } from '$lib/server/repositories/catalogue';
 import { EDITABLE_EQUIPMENT_KINDS } from '$lib/schemas/catalogue';
 import type { PageServerLoad } from './$types';
 
-const STATUSES = ['all', 'active', 'retired'] as const;
-
 export const load: PageServerLoad = async (event) => {
 	const user = requirePermission(event, 'admin:catalogue');
 	const q = event.url.searchParams;
-	const status = STATUSES.find((s) => s === q.get('status')) ?? 'all';
+	const { status, deleted, shown } = listQuery(q);
 	const kind = EDITABLE_EQUIPMENT_KINDS.find((k) => k === q.get('kind')) ?? '';
 	const items = await listEquipment({ includeRetired: true });
 	const order = new Map<string, number>(EDITABLE_EQUIPMENT_KINDS.map((k, i) => [k, i]));
@@ -22,11 +21,11 @@ export const load: PageServerLoad = async (event) => {
 		})),
 		kind,
 		status,
-		deleted: q.get('deleted')?.slice(0, 60) ?? null,
+		deleted,
 		total: items.length,
 		items: items
 			.filter((i) => (kind ? i.kind === kind : true))
-			.filter((i) => (status === 'all' ? true : status === 'retired' ? i.retired : !i.retired))
+			.filter(shown)
 			.sort(
 				(a, b) =>
 					(order.get(a.kind) ?? 99) - (order.get(b.kind) ?? 99) || a.sku.localeCompare(b.sku)

@@ -1,4 +1,5 @@
 import { requirePermission } from '$lib/server/auth/guard';
+import { listQuery } from '$lib/server/catalogue-admin';
 import {
 	listBatteries,
 	listTruckFamilies,
@@ -6,13 +7,10 @@ import {
 } from '$lib/server/repositories/catalogue';
 import type { PageServerLoad } from './$types';
 
-const STATUSES = ['all', 'active', 'retired'] as const;
-type Status = (typeof STATUSES)[number];
-
 export const load: PageServerLoad = async (event) => {
 	const user = requirePermission(event, 'admin:catalogue');
 	const q = event.url.searchParams;
-	const status: Status = STATUSES.find((s) => s === q.get('status')) ?? 'all';
+	const { status, deleted, shown } = listQuery(q);
 	const [trucks, families, batteries] = await Promise.all([
 		listTruckModels({ includeRetired: true }),
 		listTruckFamilies(),
@@ -25,11 +23,11 @@ export const load: PageServerLoad = async (event) => {
 		families,
 		family,
 		status,
-		deleted: q.get('deleted')?.slice(0, 60) ?? null,
+		deleted,
 		total: trucks.length,
 		trucks: trucks
 			.filter((t) => (family ? t.family === family : true))
-			.filter((t) => (status === 'all' ? true : status === 'retired' ? t.retired : !t.retired))
+			.filter(shown)
 			.map((t) => ({
 				id: t.id,
 				code: t.code,
