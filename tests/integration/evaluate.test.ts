@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { BASE, DEMO, client, signIn } from '../helpers/http';
+import { chosenSurvey } from '../helpers/scenario';
 
 // The request of the product design's API example (DESIGN.md §4), which the demo catalogue's
 // truck TW-B4-25 and battery TW-B48-775-LA reproduce as catalogue models.
@@ -103,5 +104,22 @@ describe('POST /api/v1/evaluate', () => {
 	it('is reachable only by POST', async () => {
 		const res = await fetch(`${BASE}/api/v1/evaluate`);
 		expect(res.status).toBe(405);
+	});
+});
+
+describe('the recommendation page speaks the user’s units', () => {
+	it('gives the engine’s figures in inches first to a rep who works in imperial units, in millimetres first to one who works in metric', async () => {
+		// rep2 works in imperial units (seed-data/people.json); a survey of their own team
+		const imperial = await signIn(DEMO.rep2);
+		const metric = await signIn(DEMO.rep);
+		const mine = await chosenSurvey(metric);
+		const theirs = await chosenSurvey(imperial);
+		const metricHtml = await (await metric.get(`/surveys/${mine}/recommendation`)).text();
+		const imperialHtml = await (await imperial.get(`/surveys/${theirs}/recommendation`)).text();
+		// e.g. "1 150 mm (45.3 in)" for metric and "45.3 in (1 150 mm)" for imperial, in the check sentences
+		expect(metricHtml).toMatch(/\d mm \(\d+(\.\d)? in\)/);
+		expect(metricHtml).not.toMatch(/\d in \(\d[\d ]* mm\)/);
+		expect(imperialHtml).toMatch(/\d in \(\d[\d ]* mm\)/);
+		expect(imperialHtml).not.toMatch(/\d mm \(\d+(\.\d)? in\)/);
 	});
 });

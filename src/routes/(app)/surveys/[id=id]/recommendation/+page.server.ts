@@ -15,7 +15,8 @@ export const load: PageServerLoad = async ({ parent, locals }) => {
 	const canQuote = !!locals.user && can(locals.user.role, 'quote:edit');
 	const built = buildEvaluateBody(survey.data);
 	if (!built.ok) return { missing: built.missing, result: null, input: null, errors: null, quoteToken, canQuote };
-	const outcome = await runEvaluation(built.body);
+	// the engine's sentences give figures in the user's own system first
+	const outcome = await runEvaluation({ ...built.body, units: locals.user?.unitSystem ?? 'metric' });
 	if (!outcome.ok) return { missing: [], result: null, input: null, errors: outcome.errors, quoteToken, canQuote };
 	return { missing: [], result: outcome.result, input: outcome.input, errors: null, quoteToken, canQuote };
 };
@@ -30,7 +31,7 @@ export const actions: Actions = {
 		// the server asks the engine again: the stored answer never comes from the browser
 		const built = buildEvaluateBody(found.value.data);
 		if (!built.ok) return fail(400, { chooseError: `The survey is not complete: ${built.missing.join(', ')}.` });
-		const outcome = await runEvaluation(built.body);
+		const outcome = await runEvaluation({ ...built.body, units: user.unitSystem });
 		if (!outcome.ok) return fail(400, { chooseError: outcome.message });
 		const setup = outcome.result.setups.find((s) => s.id === parsed.data.setup);
 		if (!setup || setup.verdict === 'does-not-fit') {
