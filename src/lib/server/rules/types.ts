@@ -6,6 +6,7 @@
  * Units are in the field names: millimetres, kilograms, kWh, m³/h, m², degrees, hours; money is
  * integer cents.
  */
+import { SETUP_LABELS } from '../../labels';
 
 import type { UnitSystem } from '../../units';
 
@@ -34,13 +35,8 @@ export const SETUP_IDS: readonly SetupId[] = [
 	'overhead-hoist'
 ];
 
-/** UI names of the setups (shared/DESIGN.md §2). */
-export const SETUP_NAMES: Readonly<Record<SetupId, string>> = {
-	'in-truck': 'Service in truck',
-	'roller-bed': 'Side transfer',
-	'trolley-stand': 'Trolley exchange',
-	'overhead-hoist': 'Hoist exchange'
-};
+/** UI names of the setups (one list for the engine and the pages: src/lib/labels.ts). */
+export const SETUP_NAMES = SETUP_LABELS as Readonly<Record<SetupId, string>>;
 
 export interface RangeMm {
 	minMm: number;
