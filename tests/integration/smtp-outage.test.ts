@@ -68,13 +68,16 @@ describe('the SMTP relay down for a minute', () => {
 			expect(later.every((r) => r.created)).toBe(true);
 			expect(await queue(3)).toEqual({ id: later[0].id, created: false });
 
-			// until the minute is up: nothing delivered, nothing given up
+			// until the minute is up: nothing delivered, nothing given up. A poll may catch a message
+			// in the middle of an attempt ('sending': claimed, connecting); on a busy machine the
+			// refused connection takes longer to come back, so that moment is wider. Only 'sent' or
+			// 'failed' would be wrong here.
 			while (Date.now() < downAt + OUTAGE_MS) {
 				const rows = await MailOutbox.findAll({ where: ofBatch });
 				expect(rows).toHaveLength(5);
 				expect(
 					rows
-						.filter((r) => r.status !== 'queued')
+						.filter((r) => r.status !== 'queued' && r.status !== 'sending')
 						.map((r) => `${r.subject}: ${r.status} after ${r.attempts} attempts`)
 				).toEqual([]);
 				expect(await CaughtMail.count({ where: ofBatch })).toBe(0);
