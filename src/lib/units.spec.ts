@@ -6,10 +6,13 @@ import {
 	MM_PER_IN,
 	formatAirFlow,
 	formatArea,
+	formatDimensions,
 	formatOpening,
 	formatInput,
+	formatInputNumber,
 	formatLength,
 	formatMass,
+	formatMassRange,
 	formatNumber,
 	inToMm,
 	kgToLb,
@@ -213,5 +216,30 @@ describe('formatting shows both systems', () => {
 		expect(value(parseMass(formatInput('mass', 1315, 'imperial')))).toBeCloseTo(1315, 0);
 		expect(value(parseAirFlow(formatInput('airFlow', 150, 'imperial')))).toBeCloseTo(150, 0);
 		expect(value(parseArea(formatInput('area', 40, 'imperial')))).toBeCloseTo(40, 1);
+	});
+
+	it('a field with its unit beside it holds only the number, read back in that unit', () => {
+		// the measured battery field showed "1099.8 mm" next to an "mm" tag
+		expect(formatInputNumber('length', 1099.8, 'metric')).toBe('1099.8');
+		expect(formatInputNumber('length', 1100, 'imperial')).toBe('43.31');
+		expect(formatInputNumber('mass', 1315.4, 'metric')).toBe('1315.4');
+		for (const system of ['metric', 'imperial'] as const) {
+			expect(value(parseLength(formatInputNumber('length', 1100, system), system))).toBeCloseTo(1100, 0);
+			expect(value(parseMass(formatInputNumber('mass', 1315, system), system))).toBeCloseTo(1315, 0);
+			expect(value(parseAirFlow(formatInputNumber('airFlow', 150, system), system))).toBeCloseTo(150, 0);
+			expect(value(parseArea(formatInputNumber('area', 40, system), system))).toBeCloseTo(40, 1);
+		}
+	});
+
+	it('a range shows both ends in both systems, the user’s first', () => {
+		// 640 kg ÷ 0.45359237 = 1 410.96 lb; 820 kg → 1 807.79 lb (by hand)
+		expect(formatMassRange(640, 820, 'imperial')).toBe('1,411–1,808 lb (640–820 kg)');
+		expect(formatMassRange(640, 820)).toBe('640–820 kg (1,411–1,808 lb)');
+	});
+
+	it('a battery’s size shows in both systems, the user’s first', () => {
+		// 1 000 / 820 / 580 mm ÷ 25.4 = 39.37 / 32.28 / 22.83 in
+		expect(formatDimensions([1000, 820, 580])).toBe('1 000 × 820 × 580 mm (39.4 × 32.3 × 22.8 in)');
+		expect(formatDimensions([1000, 820, 580], 'imperial')).toBe('39.4 × 32.3 × 22.8 in (1 000 × 820 × 580 mm)');
 	});
 });

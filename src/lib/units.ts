@@ -423,22 +423,54 @@ export function formatArea(
  * or "1100 mm", so that parsing it again gives the stored value to display precision.
  */
 export function formatInput(kind: QuantityKind, value: number, system: UnitSystem): string {
+	return `${formatInputNumber(kind, value, system)} ${INPUT_UNIT[kind][system]}`;
+}
+
+/** The unit {@link formatInput} and {@link formatInputNumber} use: the user's system's default. */
+export const INPUT_UNIT: Record<QuantityKind, Record<UnitSystem, string>> = {
+	length: { metric: 'mm', imperial: 'in' },
+	mass: { metric: 'kg', imperial: 'lb' },
+	airFlow: { metric: 'm³/h', imperial: 'cfm' },
+	area: { metric: 'm²', imperial: 'ft²' }
+};
+
+/**
+ * Only the number of {@link formatInput} ("1099.8", "43.31"), for a field that shows its unit
+ * beside it; a bare number is read back in that same unit.
+ */
+export function formatInputNumber(kind: QuantityKind, value: number, system: UnitSystem): string {
 	switch (kind) {
 		case 'length':
-			return system === 'imperial'
-				? `${+(value / MM_PER_IN).toFixed(2)} in`
-				: `${+value.toFixed(1)} mm`;
+			return system === 'imperial' ? `${+(value / MM_PER_IN).toFixed(2)}` : `${+value.toFixed(1)}`;
 		case 'mass':
-			return system === 'imperial'
-				? `${+(value / KG_PER_LB).toFixed(1)} lb`
-				: `${+value.toFixed(1)} kg`;
+			return system === 'imperial' ? `${+(value / KG_PER_LB).toFixed(1)}` : `${+value.toFixed(1)}`;
 		case 'airFlow':
-			return system === 'imperial'
-				? `${+(value / M3H_PER_CFM).toFixed(1)} cfm`
-				: `${+value.toFixed(1)} m³/h`;
+			return system === 'imperial' ? `${+(value / M3H_PER_CFM).toFixed(1)}` : `${+value.toFixed(1)}`;
 		case 'area':
-			return system === 'imperial'
-				? `${+(value / M2_PER_FT2).toFixed(1)} ft²`
-				: `${+value.toFixed(2)} m²`;
+			return system === 'imperial' ? `${+(value / M2_PER_FT2).toFixed(1)}` : `${+value.toFixed(2)}`;
 	}
+}
+
+/**
+ * A range of masses with each end in both systems, the user's first: "640–820 kg (1,411–1,808 lb)"
+ * or, imperial, "1,411–1,808 lb (640–820 kg)". Inputs in kilograms.
+ */
+export function formatMassRange(minKg: number, maxKg: number, system: UnitSystem = 'metric'): string {
+	return pair(
+		`${formatNumber(minKg, 0)}–${formatNumber(maxKg, 0)} kg`,
+		`${formatNumber(minKg / KG_PER_LB, 0, ',')}–${formatNumber(maxKg / KG_PER_LB, 0, ',')} lb`,
+		system
+	);
+}
+
+/**
+ * Length × width × height in both systems, the user's first: "1 000 × 820 × 580 mm
+ * (39.4 × 32.3 × 22.8 in)". Inputs in millimetres.
+ */
+export function formatDimensions(mm: readonly number[], system: UnitSystem = 'metric'): string {
+	return pair(
+		`${mm.map((v) => formatNumber(v, 0)).join(' × ')} mm`,
+		`${mm.map((v) => formatNumber(v / MM_PER_IN, 1, ',')).join(' × ')} in`,
+		system
+	);
 }

@@ -155,4 +155,88 @@ test.describe('site survey on a portrait tablet (768×1024)', () => {
 		await expect(page.getByTestId('setup-detail')).toBeVisible();
 		await shot(page, 'survey-11-recommendation-1280x800');
 	});
+
+	test('a refused answer is marked, never reported as saved, and leaving warns', async ({ page }) => {
+		test.setTimeout(120_000);
+		await signIn(page, 'rep@demo.traywise.test');
+		await page.goto('/surveys');
+		await hydrated(page);
+		await page.getByLabel('Customer').selectOption({ label: 'Marlow Crossing Cold Store' });
+		await page.getByRole('button', { name: 'Start survey' }).click();
+		await expect(page.getByRole('heading', { level: 2, name: 'Site and contact' })).toBeVisible();
+		await hydrated(page);
+		const surveyUrl = page.url().replace(/\/site$/, '');
+		const status = page.getByTestId('save-status');
+		const steps = page.getByRole('navigation', { name: 'Survey steps' });
+		// nothing is ticked before it is done: not the notes step, not the review
+		await expect(steps.getByRole('link', { name: /Photos and notes/ })).not.toContainText('✓');
+		await expect(steps.getByRole('link', { name: /Review/ })).not.toContainText('✓');
+
+		await page.getByLabel('Who showed you the site').fill('Dale Prentice');
+		await page.getByLabel('Their phone').fill('+1 555 0100 222');
+		await page.getByLabel('Their e-mail').fill('dale@pellham');
+		await page.getByLabel('Their e-mail').press('Tab');
+		await expect(status).toHaveAttribute('data-state', 'refused');
+		await expect(status).toContainText('Not saved: check the marked field');
+		await expect(status).not.toContainText('Saved');
+		await expect(page.getByLabel('Their e-mail')).toHaveAttribute('aria-invalid', 'true');
+		await expect(page.locator('#contactEmail-error')).toContainText('like name@example.com');
+		await shot(page, 'survey-12-site-refused-768x1024');
+
+		// moving on by the step links asks first; staying keeps the typed e-mail
+		let asked = '';
+		page.once('dialog', (d) => {
+			asked = d.message();
+			void d.dismiss();
+		});
+		await steps.getByRole('link', { name: /Trucks and battery/ }).click();
+		await expect.poll(() => asked).toContain('not saved');
+		await expect(page.getByRole('heading', { level: 2, name: 'Site and contact' })).toBeVisible();
+		await expect(page.getByLabel('Their e-mail')).toHaveValue('dale@pellham');
+
+		// reloading asks too (the browser's own question); the phone was stored, the bad e-mail was not
+		let unload = false;
+		page.once('dialog', (d) => {
+			unload = d.type() === 'beforeunload';
+			void d.accept();
+		});
+		await page.reload();
+		await hydrated(page);
+		expect(unload).toBe(true);
+		await expect(page.getByLabel('Their phone')).toHaveValue('+1 555 0100 222');
+		await expect(page.getByLabel('Their e-mail')).toHaveValue('');
+		await expect(status).toHaveAttribute('data-state', 'saved');
+
+		// 4 shifts × 12 h: said at once, and "Next" does not pass it
+		await page.goto(`${surveyUrl}/operation`);
+		await hydrated(page);
+		await page.getByLabel(/Shifts a day/).fill('4');
+		await page.getByLabel(/Hours per shift/).fill('12');
+		await page.getByLabel(/Days a week/).fill('6');
+		await page.getByRole('radio', { name: /Heavy/ }).check();
+		await page.getByRole('radio', { name: /Fast/ }).check();
+		await expect(page.getByTestId('hours-per-day')).toHaveText('4 shifts × 12 h makes 48 hours a day; a day has 24 hours. With 4 shifts, enter at most 6 h per shift.');
+		await page.getByRole('button', { name: 'Next →' }).click();
+		await expect(page.getByRole('heading', { level: 2, name: 'Operation' })).toBeVisible();
+		await expect(page.getByLabel(/Hours per shift/)).toHaveAttribute('aria-invalid', 'true');
+		await expect(steps.getByRole('link', { name: /Operation/ })).not.toContainText('✓');
+		await shot(page, 'survey-13-operation-4x12-768x1024');
+		await page.getByLabel(/Days a week/).fill('9');
+		await page.getByLabel(/Days a week/).press('Tab');
+		await expect(page.locator('#daysPerWeek-error')).toHaveText('Enter 1 to 7 days a week (whole days).');
+
+		// the fleet step shows the battery's weight range and size in both systems
+		page.once('dialog', (d) => void d.accept());
+		await steps.getByRole('link', { name: /Trucks and battery/ }).click();
+		await expect(page.getByRole('heading', { level: 2, name: 'Trucks and battery' })).toBeVisible();
+		await hydrated(page);
+		await page.getByLabel('Truck model').selectOption({ label: 'Basalt 4 · 2.5 t — 2 500 kg (5,512 lb) capacity' });
+		// 1 000 and 1 450 kg ÷ 0.45359237 = 2 204.6 and 3 196.7 lb
+		await expect(page.getByTestId('truck-battery-range')).toContainText('1 000–1 450 kg (2,205–3,197 lb)');
+		const battery = page.getByLabel('Battery for this truck');
+		await battery.selectOption((await battery.locator('option', { hasText: '775 Ah lead-acid' }).getAttribute('value'))!);
+		await expect(page.getByTestId('battery-size')).toContainText(/mm \(.* in\)/);
+		await shot(page, 'survey-14-fleet-768x1024');
+	});
 });
+

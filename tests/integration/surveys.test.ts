@@ -145,3 +145,196 @@ describe('survey autosave and resume', () => {
 		expect(row).toEqual({ chosen_setup: 'overhead-hoist', recommended: 'overhead-hoist', bpt: 3 });
 	});
 });
+
+async function stepData(id: string): Promise<{ data: Record<string, Record<string, unknown> | undefined>; site_id: string | null }> {
+	const [row] = await sequelize.query<{ data: Record<string, Record<string, unknown> | undefined>; site_id: string | null }>(
+		`SELECT data, site_id FROM surveys WHERE id = :id`,
+		{ replacements: { id }, type: QueryTypes.SELECT }
+	);
+	return row;
+}
+
+describe('autosave stores the good answers of a step and refuses only the bad one', () => {
+	it('a mistyped e-mail keeps the name and phone, and says how to write the e-mail', async () => {
+		const id = await startSurvey(rep);
+		const res = await rep.post(
+			`/api/v1/surveys/${id}`,
+			{ step: 'site', values: { contactName: 'Dale Prentice', contactPhone: '+1 555 0100 222', contactEmail: 'dale@pellham' } },
+			{ method: 'PATCH' }
+		);
+		expect(res.status).toBe(400);
+		const body = await res.json();
+		expect(Object.keys(body.errors)).toEqual(['values.contactEmail']);
+		expect(body.errors['values.contactEmail'][0]).toMatch(/name@example\.com/);
+		expect(body.message).not.toMatch(/right kind/);
+		expect(body.message).toMatch(/other answers of this step were saved/);
+		// what was stored is answered, as a full save would
+		expect(body.version).toBeGreaterThan(0);
+		expect(typeof body.updatedAt).toBe('string');
+
+		const { data } = await stepData(id);
+		expect(data.site).toMatchObject({ contactName: 'Dale Prentice', contactPhone: '+1 555 0100 222' });
+		expect(data.site).not.toHaveProperty('contactEmail');
+		// what the survey was started with is still there
+		expect(data.site).toMatchObject({ customerId, siteId });
+	});
+
+	it('an energy figure of 0 keeps the shifts, hours and days typed with it', async () => {
+		const id = await startSurvey(rep);
+		const res = await rep.post(
+			`/api/v1/surveys/${id}`,
+			{ step: 'operation', values: { shiftsPerDay: 2, hoursPerShift: 8, daysPerWeek: 5, duty: 'measured', energyKwhPerHour: 0 } },
+			{ method: 'PATCH' }
+		);
+		expect(res.status).toBe(400);
+		const body = await res.json();
+		expect(Object.keys(body.errors)).toEqual(['values.energyKwhPerHour']);
+		expect(body.errors['values.energyKwhPerHour'][0]).toMatch(/more than 0, at most 20 kWh/);
+		const { data } = await stepData(id);
+		expect(data.operation).toEqual({ shiftsPerDay: 2, hoursPerShift: 8, daysPerWeek: 5, duty: 'measured' });
+	});
+
+	it('a bad answer inside a list row empties only that answer', async () => {
+		const id = await startSurvey(rep);
+		const res = await rep.post(
+			`/api/v1/surveys/${id}`,
+			{ step: 'equipment', values: { palletTrucks: [{ forkLengthMm: 99_999, overallWidthMm: 540, capacityKg: 2000 }], hasCrane: false } },
+			{ method: 'PATCH' }
+		);
+		expect(res.status).toBe(400);
+		expect(Object.keys((await res.json()).errors)).toEqual(['values.palletTrucks.0.forkLengthMm']);
+		const { data } = await stepData(id);
+		expect(data.equipment).toEqual({ palletTrucks: [{ forkLengthMm: null, overallWidthMm: 540, capacityKg: 2000 }], hasCrane: false });
+	});
+
+	it('"Next" with a mistyped e-mail stays on the step but keeps the rest of what was typed', async () => {
+		const id = await startSurvey(rep);
+		const res = await rep.action(`/surveys/${id}/site?/next`, {
+			contactName: 'Dale Prentice',
+			contactPhone: '+1 555 0100 222',
+			contactEmail: 'dale@pellham'
+		});
+		expect(res.status).toBe(400);
+		const { data } = await stepData(id);
+		expect(data.site).toMatchObject({ contactName: 'Dale Prentice', contactPhone: '+1 555 0100 222', customerId, siteId });
+		expect(data.site).not.toHaveProperty('contactEmail');
+	});
+});
+
+describe('the operation step refuses a day longer than 24 hours', () => {
+	it('"Next" with 4 shifts × 12 h stays on the step and says at most 6 h', async () => {
+		const id = await startSurvey(rep);
+		const res = await rep.action(`/surveys/${id}/operation?/next`, {
+			shiftsPerDay: '4',
+			hoursPerShift: '12',
+			daysPerWeek: '6',
+			duty: 'heavy',
+			energyKwhPerHour: '5',
+			charging: 'fast'
+		});
+		expect(res.status).toBe(400);
+		expect(await res.text()).toContain('With 4 shifts, enter at most 6 h per shift.');
+		const fine = await rep.action(`/surveys/${id}/operation?/next`, {
+			shiftsPerDay: '4',
+			hoursPerShift: '6',
+			daysPerWeek: '6',
+			duty: 'heavy',
+			energyKwhPerHour: '5',
+			charging: 'fast'
+		});
+		expect(fine.status).toBe(303);
+		expect(fine.headers.get('location')).toBe(`/surveys/${id}/equipment`);
+	});
+
+	it('"Days a week" of 9 says the range', async () => {
+		const id = await startSurvey(rep);
+		const res = await rep.action(`/surveys/${id}/operation?/next`, { shiftsPerDay: '2', hoursPerShift: '8', daysPerWeek: '9', duty: 'light', energyKwhPerHour: '2.5', charging: 'conventional' });
+		expect(res.status).toBe(400);
+		expect(await res.text()).toContain('Enter 1 to 7 days a week (whole days).');
+	});
+
+	it('the review lists it in the wizard’s words', async () => {
+		const id = await startSurvey(rep);
+		const values = { ...steps().operation, shiftsPerDay: 4, hoursPerShift: 12 };
+		expect((await rep.post(`/api/v1/surveys/${id}`, { step: 'operation', values }, { method: 'PATCH' })).status).toBe(200);
+		const html = await (await rep.get(`/surveys/${id}/review`)).text();
+		expect(html).toContain('4 shifts × 12 h makes 48 hours a day');
+		expect(html).not.toContain('operation.hoursPerShift');
+		expect(html).not.toContain('shift(s)');
+	});
+});
+
+describe('a survey needs a site', () => {
+	let bareCustomerId: string;
+	beforeAll(async () => {
+		const res = await rep.action('/customers/new', { name: `Siteless Depot ${randomUUID().slice(0, 8)}`, accountNumber: '', notes: '' });
+		expect(res.status).toBe(303);
+		bareCustomerId = /\/customers\/([0-9a-f-]{36})/.exec(res.headers.get('location') ?? '')![1];
+	});
+
+	it('refuses to start one for a customer without sites, and points to adding one', async () => {
+		const res = await rep.action('/surveys?/start', { customerId: bareCustomerId, clientToken: randomUUID() });
+		expect(res.status).toBe(400);
+		const html = await res.text();
+		expect(html).toContain('has no site yet');
+		expect(html).toContain(`/customers/${bareCustomerId}/sites/new?return=`);
+		const [{ n }] = await sequelize.query<{ n: string }>(`SELECT count(*) AS n FROM surveys WHERE customer_id = :id`, {
+			replacements: { id: bareCustomerId },
+			type: QueryTypes.SELECT
+		});
+		expect(Number(n)).toBe(0);
+	});
+
+	it('an older survey without a site links to adding one, which comes back to the survey', async () => {
+		const [me] = await sequelize.query<{ id: string; team_id: string | null }>(`SELECT id, team_id FROM users WHERE email = :email`, {
+			replacements: { email: DEMO.rep },
+			type: QueryTypes.SELECT
+		});
+		const [{ id }] = await sequelize.query<{ id: string }>(
+			`INSERT INTO surveys (customer_id, site_id, owner_id, team_id, data) VALUES (:c, NULL, :o, :t, :data::jsonb) RETURNING id`,
+			{
+				replacements: { c: bareCustomerId, o: me.id, t: me.team_id, data: JSON.stringify({ site: { customerId: bareCustomerId, surveyDate: '2026-12-02' } }) },
+				type: QueryTypes.SELECT
+			}
+		);
+		const back = `/surveys/${id}/site`;
+		const html = await (await rep.get(back)).text();
+		expect(html).toContain('has no sites yet');
+		const link = `/customers/${bareCustomerId}/sites/new?return=${encodeURIComponent(back)}`;
+		expect(html).toContain(link.replace(/&/g, '&amp;'));
+
+		const saved = await rep.action(link, { name: 'Yard', addressLine1: '1 Quay Road', city: 'Orsenfeld', country: 'United States', regionCode: 'WA' });
+		expect(saved.status).toBe(303);
+		expect(saved.headers.get('location')).toBe(back);
+		// an address elsewhere is not followed
+		const elsewhere = await rep.action(`/customers/${bareCustomerId}/sites/new?return=${encodeURIComponent('https://example.com/x')}`, {
+			name: 'Annex',
+			addressLine1: '2 Quay Road',
+			city: 'Orsenfeld',
+			country: 'United States'
+		});
+		expect(elsewhere.headers.get('location')).toBe(`/customers/${bareCustomerId}#sites`);
+
+		// choosing the new site on the site step makes it the survey's site
+		const [site] = await sequelize.query<{ id: string }>(`SELECT id FROM sites WHERE customer_id = :c AND name = 'Yard'`, {
+			replacements: { c: bareCustomerId },
+			type: QueryTypes.SELECT
+		});
+		expect((await rep.post(`/api/v1/surveys/${id}`, { step: 'site', values: { siteId: site.id } }, { method: 'PATCH' })).status).toBe(200);
+		expect((await stepData(id)).site_id).toBe(site.id);
+		// a site of another customer is not
+		expect((await rep.post(`/api/v1/surveys/${id}`, { step: 'site', values: { siteId } }, { method: 'PATCH' })).status).toBe(200);
+		expect((await stepData(id)).site_id).toBe(site.id);
+	});
+});
+
+describe('the surveys list is titled by what it lists', () => {
+	it('a rep sees their team’s surveys; a manager sees every team’s', async () => {
+		expect(await (await rep.get('/surveys')).text()).toContain('Your team’s surveys');
+		const manager = await signIn(DEMO.manager);
+		const html = await (await manager.get('/surveys')).text();
+		expect(html).toContain('All surveys');
+		expect(html).not.toContain('Your surveys');
+	});
+});
+

@@ -128,6 +128,26 @@ export const fleetSchema = z.object({
 	trucks: integer(1, LIMITS.trucks, 'the number of trucks')
 });
 
+/**
+ * Shifts × hours per shift must fit in a day. Shared by this schema and the survey's operation
+ * step, so "Next" refuses exactly what the engine would. The issue is on `hoursPerShift`.
+ */
+export function hoursPerDayProblem(shiftsPerDay: unknown, hoursPerShift: unknown): string | null {
+	if (typeof shiftsPerDay !== 'number' || typeof hoursPerShift !== 'number') return null;
+	if (!(shiftsPerDay > 0) || !(hoursPerShift > 0)) return null;
+	const total = shiftsPerDay * hoursPerShift;
+	if (total <= LIMITS.hoursPerDay) return null;
+	const most = Math.floor((LIMITS.hoursPerDay / shiftsPerDay) * 2) / 2;
+	const shifts = `${shiftsPerDay} shift${shiftsPerDay === 1 ? '' : 's'}`;
+	return `${shifts} × ${hoursPerShift} h makes ${+total.toFixed(2)} hours a day; a day has ${LIMITS.hoursPerDay} hours. With ${shifts}, enter at most ${most} h per shift.`;
+}
+
+/** The refinement form of {@link hoursPerDayProblem}, for `.superRefine`. */
+export function checkHoursPerDay(o: { shiftsPerDay?: unknown; hoursPerShift?: unknown }, ctx: z.RefinementCtx): void {
+	const message = hoursPerDayProblem(o.shiftsPerDay, o.hoursPerShift);
+	if (message) ctx.addIssue({ code: 'custom', path: ['hoursPerShift'], message });
+}
+
 export const operationSchema = z
 	.object({
 		shiftsPerDay: integer(1, LIMITS.shiftsPerDay, 'shifts per day'),
@@ -137,10 +157,7 @@ export const operationSchema = z
 		charging: chargingMethodSchema,
 		years: integer(1, LIMITS.years, 'years for the cost comparison').default(5)
 	})
-	.refine((o) => o.shiftsPerDay * o.hoursPerShift <= LIMITS.hoursPerDay, {
-		message: 'Shifts × hours per shift cannot exceed 24 hours a day.',
-		path: ['hoursPerShift']
-	});
+	.superRefine(checkHoursPerDay);
 
 export const sitePalletTruckSchema = z.object({
 	forkLengthMm: positive(LIMITS.forkLengthMm, 'the fork length'),

@@ -1,8 +1,11 @@
 import { getContext, setContext } from 'svelte';
 import type { DataStep, SurveyData } from '$lib/schemas/survey';
+import type { UnitSystem } from '$lib/units';
 import { buildEvaluateBody } from '$lib/survey-input';
+import { evaluateProblems } from '$lib/survey-progress';
 
-export type SaveState = 'saved' | 'saving' | 'unsaved';
+/** `refused`: the server kept the rest of the step but refused some answers (they are marked). */
+export type SaveState = 'saved' | 'saving' | 'unsaved' | 'refused';
 export type LiveState = 'idle' | 'incomplete' | 'loading' | 'ready' | 'error';
 
 /** The parts of the engine's answer the live panel shows. */
@@ -25,15 +28,55 @@ const RETRY_MS = [1_000, 2_000, 5_000, 10_000, 20_000, 30_000];
 const EVALUATE_DEBOUNCE_MS = 350;
 
 /**
+ * Refused answers from a 400 of `PATCH /api/v1/surveys/[id]`: its `errors` are keyed
+ * "values.<path>"; gives path → first message. Empty when the answer has no field errors.
+ */
+export function refusedFields(errors: unknown): Record<string, string> {
+	const out: Record<string, string> = {};
+	if (!errors || typeof errors !== 'object') return out;
+	for (const [key, messages] of Object.entries(errors as Record<string, unknown>)) {
+		if (!key.startsWith('values.')) continue;
+		const first = Array.isArray(messages) ? messages.find((m) => typeof m === 'string') : null;
+		out[key.slice('values.'.length)] = first ?? 'Check this answer.';
+	}
+	return out;
+}
+
+/** The top-level field of a refused path ("palletTrucks.0.forkLengthMm" → "palletTrucks"). */
+const topField = (path: string) => path.split('.')[0];
+
+/**
+ * What the server kept of `values` when it refused `paths`: a refused answer is left out, a refused
+ * answer inside a row or the measured battery is emptied (the rest of the row is kept), and a list
+ * with a refused row is not stored at all.
+ */
+export function keptValues(values: Record<string, unknown>, paths: string[]): Record<string, unknown> {
+	const kept = JSON.parse(JSON.stringify(values)) as Record<string, unknown>;
+	for (const path of paths) {
+		const parts = path.split('.');
+		let parent: unknown = kept;
+		for (const part of parts.slice(0, -1)) parent = parent && typeof parent === 'object' ? (parent as Record<string, unknown>)[part] : undefined;
+		if (parts.length === 1 || Array.isArray(parent) || !parent || typeof parent !== 'object') delete kept[parts[0]];
+		else (parent as Record<string, unknown>)[parts[parts.length - 1]] = null;
+	}
+	return kept;
+}
+
+/**
  * The survey being edited in this browser tab: its data, the autosave queue and the live fit
  * answer. Every change is saved to the server; a failed save is kept (also in localStorage, so a
- * reload keeps it) and retried with a visible "not saved yet" state.
+ * reload keeps it) and retried with a visible "not saved yet" state. Answers the server refuses
+ * (out of range, malformed) are not retried: they stay marked beside their field until the rep
+ * changes them, while the rest of the step is saved.
  */
 export class SurveyDraft {
 	data: SurveyData = $state({});
 	saveState: SaveState = $state('saved');
 	lastSavedAt: string | null = $state(null);
+	/** a refusal without field errors (should not happen from the wizard's own forms) */
 	saveError: string | null = $state(null);
+	/** refused answers by step, path → message */
+	refused: Partial<Record<DataStep, Record<string, string>>> = $state({});
 	/** true once a save has failed and is being retried */
 	retrying = $state(false);
 	version = $state(0);
@@ -43,6 +86,8 @@ export class SurveyDraft {
 
 	#id: string;
 	#pending = new Map<DataStep, Record<string, unknown>>();
+	/** what the server holds, as far as this tab knows: what refused answers go back to */
+	#stored: SurveyData;
 	#timer: ReturnType<typeof setTimeout> | null = null;
 	#attempt = 0;
 	#flushing = false;
@@ -50,9 +95,14 @@ export class SurveyDraft {
 	#evalController: AbortController | null = null;
 	#evalSeq = 0;
 
-	constructor(id: string, data: SurveyData, version: number, updatedAt: string) {
+	/** the rep's units: the engine writes its figures in them first */
+	#units: UnitSystem;
+
+	constructor(id: string, data: SurveyData, version: number, updatedAt: string, units: UnitSystem = 'metric') {
 		this.#id = id;
+		this.#units = units;
 		this.data = data;
+		this.#stored = JSON.parse(JSON.stringify(data ?? {})) as SurveyData;
 		this.version = version;
 		this.lastSavedAt = updatedAt;
 	}
@@ -110,25 +160,30 @@ export class SurveyDraft {
 					headers: { 'content-type': 'application/json', accept: 'application/json' },
 					body: JSON.stringify({ step, values, version: this.version })
 				});
-				if (res.status === 400) {
-					// the server refused these values: keep the rest going, show why
-					const body = await res.json().catch(() => ({}));
-					this.saveError = body.message ?? 'Some values could not be saved.';
-					this.#pending.delete(step);
-					continue;
+				if (res.status !== 400 && !res.ok) throw new Error(`save failed: ${res.status}`);
+				const body = (await res.json().catch(() => ({}))) as {
+					version?: number;
+					updatedAt?: string;
+					message?: string;
+					errors?: unknown;
+				};
+				const refused = res.ok ? {} : refusedFields(body.errors);
+				if (!res.ok && Object.keys(refused).length === 0) {
+					// refused as a whole, for no one field: retrying would not help
+					this.saveError = body.message ?? 'This step could not be saved; reload the page and try again.';
+				} else {
+					this.saveError = null;
+					this.#settle(step, values, refused);
 				}
-				if (!res.ok) throw new Error(`save failed: ${res.status}`);
-				const body = (await res.json()) as { version: number; updatedAt: string };
+				if (typeof body.version === 'number') this.version = body.version;
+				if (typeof body.updatedAt === 'string') this.lastSavedAt = body.updatedAt;
 				// only forget what was sent if nothing newer arrived meanwhile
 				if (JSON.stringify(this.#pending.get(step)) === JSON.stringify(values)) this.#pending.delete(step);
-				this.version = body.version;
-				this.lastSavedAt = body.updatedAt;
-				this.saveError = null;
 			}
 			this.#attempt = 0;
 			this.retrying = false;
 			this.#persistPending();
-			this.saveState = this.#pending.size ? 'unsaved' : 'saved';
+			this.saveState = this.#pending.size ? 'unsaved' : this.hasRefused ? 'refused' : 'saved';
 			if (this.#pending.size) this.#schedule(100);
 			return this.#pending.size === 0;
 		} catch {
@@ -142,8 +197,86 @@ export class SurveyDraft {
 		}
 	}
 
+	/** Records the server's answer to one step's values: what it kept, and what it refused. */
+	#settle(step: DataStep, values: Record<string, unknown>, refused: Record<string, string>) {
+		const paths = Object.keys(refused);
+		this.#stored = { ...this.#stored, [step]: { ...(this.#stored[step] ?? {}), ...keptValues(values, paths) } };
+		// answers sent this time replace their old refusals; answers not sent keep theirs
+		const still = Object.fromEntries(Object.entries(this.refused[step] ?? {}).filter(([path]) => !Object.hasOwn(values, topField(path))));
+		const next = { ...still, ...refused };
+		const all = { ...this.refused };
+		if (Object.keys(next).length) all[step] = next;
+		else delete all[step];
+		this.refused = all;
+	}
+
+	/** The refused answer's message for a field of a step (its path inside the step), if any. */
+	fieldError(step: DataStep, path: string): string | null {
+		return this.refused[step]?.[path] ?? null;
+	}
+
+	/** How many answers are refused, over every step. */
+	get refusedCount(): number {
+		return Object.values(this.refused).reduce((n, r) => n + Object.keys(r ?? {}).length, 0);
+	}
+
+	get hasRefused(): boolean {
+		return this.refusedCount > 0 || this.saveError !== null;
+	}
+
+	/** Something typed is not on the server: waiting, retrying, or refused. */
 	get hasUnsaved() {
+		return this.#pending.size > 0 || this.hasRefused;
+	}
+
+	/** Saves are waiting or in flight (not refused ones). */
+	get hasPending() {
 		return this.#pending.size > 0;
+	}
+
+	/**
+	 * Drops the refused answers (the rep chose to leave them): the survey goes back to what the
+	 * server holds for those fields.
+	 */
+	discardRefused() {
+		const data = { ...this.data };
+		for (const [step, paths] of Object.entries(this.refused) as [DataStep, Record<string, string>][]) {
+			const current = { ...((data[step] ?? {}) as Record<string, unknown>) };
+			const stored = (this.#stored[step] ?? {}) as Record<string, unknown>;
+			for (const field of new Set(Object.keys(paths).map(topField))) {
+				if (Object.hasOwn(stored, field)) current[field] = stored[field];
+				else delete current[field];
+			}
+			(data as Record<string, unknown>)[step] = current;
+		}
+		this.data = data;
+		this.refused = {};
+		this.saveError = null;
+		if (this.saveState === 'refused') this.saveState = this.#pending.size ? 'unsaved' : 'saved';
+		this.scheduleEvaluate();
+	}
+
+	/**
+	 * Takes the survey as the server sent it with a page (after Next or Back, which save too):
+	 * answers still waiting to be saved or refused here stay on top.
+	 */
+	adopt(server: SurveyData, version: number, updatedAt: string) {
+		this.#stored = JSON.parse(JSON.stringify(server ?? {})) as SurveyData;
+		const data: SurveyData = { ...this.#stored };
+		const local = this.data as Record<string, Record<string, unknown> | undefined>;
+		for (const step of new Set([...this.#pending.keys(), ...(Object.keys(this.refused) as DataStep[])])) {
+			const mine: Record<string, unknown> = { ...(this.#pending.get(step) ?? {}) };
+			for (const path of Object.keys(this.refused[step] ?? {})) {
+				const field = topField(path);
+				if (local[step] && Object.hasOwn(local[step], field)) mine[field] = local[step][field];
+			}
+			(data as Record<string, unknown>)[step] = { ...((data[step] ?? {}) as Record<string, unknown>), ...mine };
+		}
+		this.data = data;
+		if (version > this.version) {
+			this.version = version;
+			this.lastSavedAt = updatedAt;
+		}
 	}
 
 	scheduleEvaluate() {
@@ -170,13 +303,13 @@ export class SurveyDraft {
 			const res = await fetch('/api/v1/evaluate', {
 				method: 'POST',
 				headers: { 'content-type': 'application/json', accept: 'application/json' },
-				body: JSON.stringify(built.body),
+				body: JSON.stringify({ ...built.body, units: this.#units }),
 				signal: controller.signal
 			});
 			if (seq !== this.#evalSeq) return;
 			if (!res.ok) {
 				const body = await res.json().catch(() => ({}));
-				this.missing = Object.entries((body.errors ?? {}) as Record<string, string[]>).map(([k, v]) => `${k}: ${v[0]}`);
+				this.missing = evaluateProblems(body.errors as Record<string, string[]> | undefined);
 				this.liveState = res.status === 400 ? 'incomplete' : 'error';
 				return;
 			}

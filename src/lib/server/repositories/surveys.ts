@@ -172,22 +172,27 @@ export async function getSurvey(id: string, viewer: SessionUser): Promise<Access
  * Merges one step's values into the survey in a single statement (no read-modify-write race), bumps
  * the version and remembers the step. Returns the new version.
  */
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
 export async function saveStep(
 	id: string,
 	step: DataStep,
 	values: Record<string, unknown>,
 	opts: { currentStep?: string; transaction?: Transaction } = {}
 ): Promise<{ version: number; updatedAt: string }> {
+	// the site chosen on the site step becomes the survey's site (lists, header, quote), if it is one of the customer's
+	const siteId = step === 'site' && typeof values.siteId === 'string' && UUID.test(values.siteId) ? values.siteId : null;
 	const [rows] = (await sequelize.query(
 		`UPDATE surveys
 		 SET data = jsonb_set(data, ARRAY[:step], coalesce(data -> :step, '{}'::jsonb) || :values::jsonb),
 		     version = version + 1,
 		     current_step = coalesce(:currentStep, current_step),
+		     site_id = coalesce((SELECT st.id FROM sites st WHERE st.id = CAST(:siteId AS uuid) AND st.customer_id = surveys.customer_id), site_id),
 		     updated_at = now()
 		 WHERE id = :id
 		 RETURNING version, updated_at`,
 		{
-			replacements: { id, step, values: JSON.stringify(values), currentStep: opts.currentStep ?? null },
+			replacements: { id, step, values: JSON.stringify(values), currentStep: opts.currentStep ?? null, siteId },
 			transaction: opts.transaction
 		}
 	)) as [{ version: number; updated_at: Date }[], unknown];
@@ -258,4 +263,12 @@ export async function siteBelongsToCustomer(siteId: string, customerId: string):
 		type: QueryTypes.SELECT
 	});
 	return rows.length > 0;
+}
+
+/** The customer's contacts (name, e-mail, phone), for the site step's suggestions. */
+export async function contactsOfCustomer(customerId: string): Promise<{ name: string; email: string; phone: string }[]> {
+	return sequelize.query<{ name: string; email: string; phone: string }>(
+		`SELECT name, email, phone FROM contacts WHERE customer_id = :customerId ORDER BY name LIMIT 50`,
+		{ replacements: { customerId }, type: QueryTypes.SELECT }
+	);
 }

@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { fail, redirect } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/auth/guard';
-import { can } from '$lib/server/auth/permissions';
+import { can, recordScope } from '$lib/server/auth/permissions';
 import { newSurveySchema } from '$lib/schemas/survey';
 import { createSurvey, customerChoices, listSurveys, siteBelongsToCustomer } from '$lib/server/repositories/surveys';
 import type { Actions, PageServerLoad } from './$types';
@@ -24,6 +24,8 @@ export const load: PageServerLoad = async (event) => {
 		q,
 		customers,
 		canStart: can(user.role, 'survey:edit'),
+		// a rep sees their own and their team's surveys; managers and admins see every team's
+		listTitle: recordScope(user.role) === 'team' ? (user.teamId ? 'Your team’s surveys' : 'Your surveys') : 'All surveys',
 		clientToken: randomUUID(),
 		preselect: event.url.searchParams.get('customer')
 	};
@@ -42,8 +44,16 @@ export const actions: Actions = {
 			return fail(400, { startError: 'That site belongs to another customer.' });
 		}
 		const customers = await customerChoices();
-		if (!customers.some((c) => c.id === parsed.data.customerId)) {
+		const customer = customers.find((c) => c.id === parsed.data.customerId);
+		if (!customer) {
 			return fail(400, { startError: 'That customer no longer exists.' });
+		}
+		if (customer.sites.length === 0) {
+			// a survey is of a site: without one the rep could not get past its first step
+			return fail(400, {
+				startError: `${customer.name} has no site yet. Add the site first, then start the survey.`,
+				addSiteFor: customer.id
+			});
 		}
 		const token = typeof form.clientToken === 'string' && /^[0-9a-f-]{36}$/.test(form.clientToken) ? form.clientToken : null;
 		const id = await createSurvey({

@@ -1,6 +1,6 @@
 import { error, json } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/auth/guard';
-import { autosaveSchema, draftStepSchema } from '$lib/schemas/survey';
+import { autosaveSchema, parseDraftStep } from '$lib/schemas/survey';
 import { fieldErrors } from '$lib/server/evaluation';
 import { getSurvey, saveStep } from '$lib/server/repositories/surveys';
 import { readJsonBody } from '$lib/server/json-body';
@@ -16,8 +16,11 @@ export const GET: RequestHandler = async (event) => {
 };
 
 /**
- * Autosave of one wizard step: `{ step, values, version? }`. Values are type-checked field by field
- * (a half-filled step is fine); the step is merged into the survey atomically.
+ * Autosave of one wizard step: `{ step, values, version? }`. Each answer is checked on its own
+ * (type and range; a half-filled step is fine) and the good ones are merged into the survey
+ * atomically. 200 `{ version, updatedAt }` means every answer was stored. When some are refused the
+ * answer is 400 with `errors` keyed "values.<field>" saying what to fix; the other answers are
+ * stored all the same, and `version`/`updatedAt` are given when anything was.
  */
 export const PATCH: RequestHandler = async (event) => {
 	const user = requirePermission(event, 'survey:edit');
@@ -30,13 +33,24 @@ export const PATCH: RequestHandler = async (event) => {
 	if (!body.success) {
 		return json({ message: 'The save request is not in the expected shape.', errors: fieldErrors(body.error.issues) }, { status: 400 });
 	}
-	const values = draftStepSchema(body.data.step).safeParse(body.data.values);
-	if (!values.success) {
-		return json(
-			{ message: 'Some values are not of the right kind.', errors: fieldErrors(values.error.issues.map((i) => ({ ...i, path: ['values', ...i.path] }))) },
-			{ status: 400 }
-		);
+	const { values, errors } = parseDraftStep(body.data.step, body.data.values);
+	const refused = Object.keys(errors);
+	const kept = Object.keys(values).length;
+	if (refused.length === 0 || kept > 0) {
+		const saved = await saveStep(event.params.id, body.data.step, values, { currentStep: body.data.step });
+		if (refused.length === 0) return json(saved);
+		return json({ ...refusal(refused.length, kept), errors: prefixed(errors), ...saved }, { status: 400 });
 	}
-	const saved = await saveStep(event.params.id, body.data.step, values.data as Record<string, unknown>, { currentStep: body.data.step });
-	return json(saved);
+	return json({ ...refusal(refused.length, 0), errors: prefixed(errors) }, { status: 400 });
 };
+
+function refusal(refused: number, kept: number) {
+	const what = refused === 1 ? 'One answer was not saved: fix it as its message says.' : `${refused} answers were not saved: fix them as their messages say.`;
+	return { message: `${what}${kept ? ' The other answers of this step were saved.' : ''}` };
+}
+
+function prefixed(errors: Record<string, string[]>): Record<string, string[]> {
+	const out: Record<string, string[]> = Object.create(null);
+	for (const [path, messages] of Object.entries(errors)) out[`values.${path}`] = messages;
+	return out;
+}
