@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatDate, quoteDate, quoteMoment } from './format';
+import { formatDate, quoteDate, quoteMoment, waitedFor } from './format';
 
 // IANA zone rules (tz database): Los Angeles is UTC−8 in December (PST), Tokyo UTC+9 all year.
 describe('quote dates on the dealer calendar', () => {
@@ -16,5 +16,18 @@ describe('quote dates on the dealer calendar', () => {
 		expect(quoteDate('not a date', 'UTC')).toBe('—');
 		expect(quoteMoment(undefined, 'UTC')).toBe('—');
 		expect(formatDate('nope')).toBe('');
+	});
+});
+
+describe('how long something has waited', () => {
+	it('uses the largest sensible units', () => {
+		const at = '2026-12-01T08:00:00Z';
+		expect(waitedFor(at, '2026-12-01T08:00:30Z')).toBe('less than a minute');
+		expect(waitedFor(at, '2026-12-01T08:25:00Z')).toBe('25 min');
+		expect(waitedFor(at, '2026-12-01T11:10:00Z')).toBe('3 h 10 min');
+		expect(waitedFor(at, '2026-12-01T11:00:00Z')).toBe('3 h');
+		expect(waitedFor(at, '2026-12-03T12:00:00Z')).toBe('2 days 4 h');
+		expect(waitedFor(at, '2026-12-02T08:00:00Z')).toBe('1 day');
+		expect(waitedFor(at, '2026-11-30T08:00:00Z')).toBe('less than a minute');
 	});
 });

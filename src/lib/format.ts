@@ -32,3 +32,19 @@ export function quoteMoment(iso: string | null | undefined, timeZone: string): s
 		timeZoneName: 'short'
 	}).format(d);
 }
+
+/**
+ * How long something has waited, from `fromIso` to `nowIso`, in the largest sensible units:
+ * "less than a minute", "25 min", "3 h 10 min", "2 days 4 h". Never negative.
+ */
+export function waitedFor(fromIso: string, nowIso: string): string {
+	const ms = new Date(nowIso).getTime() - new Date(fromIso).getTime();
+	if (!Number.isFinite(ms) || ms < 60_000) return 'less than a minute';
+	const minutes = Math.floor(ms / 60_000);
+	if (minutes < 60) return `${minutes} min`;
+	const hours = Math.floor(minutes / 60);
+	if (hours < 24) return minutes % 60 ? `${hours} h ${minutes % 60} min` : `${hours} h`;
+	const days = Math.floor(hours / 24);
+	const rest = hours % 24;
+	return `${days} day${days === 1 ? '' : 's'}${rest ? ` ${rest} h` : ''}`;
+}

@@ -16,14 +16,29 @@ export async function demoIds() {
 	return { customerId: c.id, siteId: c.site_id, truckId: t.id, batteryId: b.id };
 }
 
-/** A complete three-shift survey with the hoist-exchange setup chosen; returns its id. */
-export async function chosenSurvey(rep: Client, opts: { trucks?: number; contactEmail?: string } = {}): Promise<string> {
-	const ids = await demoIds();
+/** Ids of another demo customer's site (seed-data/customers.json), for a survey there. */
+export async function siteIds(customer: string, site: string): Promise<{ customerId: string; siteId: string }> {
+	const [c] = await sequelize.query<{ id: string; site_id: string }>(
+		`SELECT c.id, s.id AS site_id FROM customers c JOIN sites s ON s.customer_id = c.id WHERE c.name = :customer AND s.name = :site`,
+		{ replacements: { customer, site }, type: QueryTypes.SELECT }
+	);
+	return { customerId: c.id, siteId: c.site_id };
+}
+
+/**
+ * A complete three-shift survey with the hoist-exchange setup chosen; returns its id. At the demo
+ * customer's freezer halls unless `site` names another customer's site.
+ */
+export async function chosenSurvey(
+	rep: Client,
+	opts: { trucks?: number; contactEmail?: string; contactName?: string; site?: { customerId: string; siteId: string } } = {}
+): Promise<string> {
+	const ids = { ...(await demoIds()), ...opts.site };
 	const start = await rep.action('/surveys?/start', { customerId: ids.customerId, siteId: ids.siteId, clientToken: randomUUID() });
 	expect(start.status).toBe(303);
 	const id = /\/surveys\/([0-9a-f-]{36})\//.exec(start.headers.get('location')!)![1];
 	const steps: Record<string, unknown> = {
-		site: { contactName: 'Dana Quillfeather', contactEmail: opts.contactEmail ?? 'dana.q@marlow-crossing.example' },
+		site: { contactName: opts.contactName ?? 'Dana Quillfeather', contactEmail: opts.contactEmail ?? 'dana.q@marlow-crossing.example' },
 		fleet: { truckModelId: ids.truckId, trucks: opts.trucks ?? 6, batterySource: 'catalogue', batteryId: ids.batteryId },
 		operation: { shiftsPerDay: 3, hoursPerShift: 8, daysPerWeek: 5, duty: 'medium', energyKwhPerHour: 3.5, charging: 'conventional' },
 		equipment: {
@@ -54,6 +69,7 @@ export async function buildQuote(rep: Client, surveyId: string, token = randomUU
 
 export interface SavedLine {
 	sku: string;
+	description: string;
 	quantity: number;
 	line_discount_bp: number;
 	unit_list_cents: string;
@@ -61,7 +77,7 @@ export interface SavedLine {
 
 export async function quoteLines(quoteId: string): Promise<SavedLine[]> {
 	return sequelize.query<SavedLine>(
-		`SELECT l.sku, l.quantity, l.line_discount_bp, l.unit_list_cents FROM quote_lines l
+		`SELECT l.sku, l.description, l.quantity, l.line_discount_bp, l.unit_list_cents FROM quote_lines l
 		 JOIN quote_revisions r ON r.id = l.revision_id
 		 WHERE r.quote_id = :id AND r.revision = (SELECT max(revision) FROM quote_revisions WHERE quote_id = :id)
 		 ORDER BY l.position`,
@@ -82,6 +98,29 @@ export async function saveWithDiscount(rep: Client, quoteId: string, percent: nu
 		...extra
 	};
 	return rep.action(`/quotes/${quoteId}?/save`, { payload: JSON.stringify(payload) });
+}
+
+/**
+ * A form action as the page's enhanced form sends it: SvelteKit answers JSON whose `data` is
+ * flattened by devalue; plain data (objects, arrays, strings, numbers) is rebuilt here.
+ */
+export async function enhancedAction(c: Client, path: string, fields: Record<string, string>): Promise<{ type: string; status?: number; data?: Record<string, unknown>; location?: string }> {
+	const res = await c.get(path, {
+		method: 'POST',
+		headers: { 'x-sveltekit-action': 'true', accept: 'application/json', 'content-type': 'application/x-www-form-urlencoded' },
+		body: new URLSearchParams(fields)
+	});
+	expect(res.status).toBeLessThan(500);
+	const body = (await res.json()) as { type: string; status?: number; data?: string; location?: string };
+	const flat = body.data ? (JSON.parse(body.data) as unknown[]) : null;
+	const hydrate = (i: number): unknown => {
+		if (!flat || i < 0) return undefined;
+		const v = flat[i];
+		if (Array.isArray(v)) return v.map((j) => hydrate(j as number));
+		if (v && typeof v === 'object') return Object.fromEntries(Object.entries(v).map(([k, j]) => [k, hydrate(j as number)]));
+		return v;
+	};
+	return { ...body, data: flat ? (hydrate(0) as Record<string, unknown>) : undefined };
 }
 
 export async function quoteState(quoteId: string): Promise<string> {

@@ -153,6 +153,52 @@ describe('the customer link', () => {
 	});
 });
 
+/** The visible text of a page: no scripts (the page's data), no tags, entities decoded. */
+function visibleText(html: string): string {
+	return html
+		.replace(/<script[\s\S]*?<\/script>/g, ' ')
+		.replace(/<[^>]+>/g, ' ')
+		.replace(/&amp;/g, '&')
+		.replace(/&quot;/g, '"')
+		.replace(/&#39;/g, "'")
+		.replace(/\s+/g, ' ');
+}
+
+describe('what the customer reads', () => {
+	it('why the setup fits their site, checks by name, no ranking or cost comparison, no zero discounts', async () => {
+		const { token } = await sentQuote();
+		const html = await (await client().get(`/q/${token}`)).text();
+		const text = visibleText(html);
+		expect(text).toContain('Why it fits your site');
+		expect(text).toContain('Fit in the compartment');
+		expect(text).toMatch(/Passes/);
+		// internal words: the engine's check codes and results, its ranking and cost comparisons between setups
+		expect(text).not.toMatch(/compartment-fit|battery-weight|handling-capacity|\b(pass|warn|fail)\b/);
+		expect(html).not.toMatch(/Ranked (first|second|third|fourth)|would cost|less over \d+ years|more over \d+ years|costOverYears/);
+		// the demo quote has line discounts only: no "−$0.00" for the overall one
+		expect(text).not.toContain('−$0.00');
+		// the two battery lines say which is which
+		expect(text).toContain('one fitted in each truck');
+		expect(text).toContain('extra batteries for the exchange rotation');
+	});
+
+	it('after accepting, lands at the deposit step; back from the payment page without paying, is told the deposit is still due', async () => {
+		const { token } = await sentQuote();
+		const c = client();
+		const ok = await c.action(`/q/${token}?/accept`, { fullName: 'Dana Quillfeather', agree: 'on' });
+		expect(ok.status).toBe(303);
+		expect(ok.headers.get('location')).toBe(`/q/${token}?accepted=1#deposit`);
+		const pay = await c.action(`/q/${token}?/pay`, {});
+		expect(pay.status).toBe(303);
+		const checkout = await (await fetch(pay.headers.get('location')!)).text();
+		// the provider's "go back" link returns to the deposit step with a flag
+		expect(checkout).toContain(`/q/${token}?payment=cancelled#deposit`);
+		const back = visibleText(await (await c.get(`/q/${token}?payment=cancelled`)).text());
+		expect(back).toMatch(/You came back without paying; nothing was charged\. The deposit of \$[\d,]+\.\d\d is still due/);
+		expect(await quoteState((await q<{ quote_id: string }>(`SELECT quote_id FROM quote_links WHERE token_hash = encode(sha256(:t::bytea), 'hex')`, { t: token }))[0].quote_id)).toBe('accepted');
+	});
+});
+
 describe('acceptance and the deposit', () => {
 	it('accepting stores name, time, address and the PDF hash; the deposit is paid through the provider and the webhook marks it paid', async () => {
 		const { quoteId, token } = await sentQuote();
@@ -218,10 +264,16 @@ describe('acceptance and the deposit', () => {
 		for (const step of ['queued', 'e-mailed', 'accepted', 'paid']) expect(staff).toMatch(new RegExp(`data-step="${step}" data-done="yes"`));
 	});
 
-	it('cannot send without a contact e-mail address', async () => {
+	it('cannot be marked ready, nor sent, without a contact e-mail address: no approved quote is left with nowhere to go', async () => {
 		const quoteId = await buildQuote(rep, await chosenSurvey(rep, { contactEmail: '' }));
 		expect((await saveWithDiscount(rep, quoteId, 0, { contactEmail: '' })).status).toBe(200);
-		expect((await rep.post(`/api/v1/quotes/${quoteId}/actions`, { action: 'mark-ready' })).status).toBe(200);
+		// refused while the rep can still add the address, not once the quote is approved and read-only
+		const ready = await rep.post(`/api/v1/quotes/${quoteId}/actions`, { action: 'mark-ready' });
+		expect(ready.status).toBe(409);
+		expect((await ready.json()).message).toMatch(/e-mail address/);
+		expect(await quoteState(quoteId)).toBe('draft');
+		// an approved revision without an address (stored before this rule) is still never sent
+		await sequelize.query(`UPDATE quote_revisions SET state = 'approved' WHERE quote_id = :id`, { replacements: { id: quoteId } });
 		const send = await rep.post(`/api/v1/quotes/${quoteId}/actions`, { action: 'send' });
 		expect(send.status).toBe(409);
 		expect((await send.json()).message).toMatch(/e-mail/);

@@ -6,8 +6,9 @@ import { compartmentScene } from '../../drawing/compartment';
 import { drawCompartmentScene } from './drawing';
 import { registerFonts, printable } from './fonts';
 import type { QuoteView } from '../repositories/quotes';
-import type { EvaluateResult, ResolvedInput, Check } from '../rules/types';
+import type { EvaluateResult, ResolvedInput } from '../rules/types';
 import { priceLine, type LineKind } from '../quotes/pricing';
+import { customerSetupText, showsTaxLine, type CustomerCheck } from '../quotes/customer-text';
 
 /** What the PDF needs from the company settings. */
 export interface PdfSettings {
@@ -77,9 +78,36 @@ export async function buildQuotePdf(view: QuoteView, settings: PdfSettings): Pro
 	const para = (text: string, opts: PDFKit.Mixins.TextOptions = {}) => {
 		doc.font('Body').fontSize(9.5).fillColor(INK).text(printable(text), MARGIN, doc.y, { width: W, ...opts });
 	};
-	function ensure(space: number) {
-		if (doc.y + space > doc.page.height - doc.page.margins.bottom) doc.addPage();
+	/** Starts a new page when `space` does not fit; true when it did. */
+	function ensure(space: number): boolean {
+		if (doc.y + space <= doc.page.height - doc.page.margins.bottom) return false;
+		doc.addPage();
+		return true;
 	}
+
+	/** A column of a table: left edge, width and alignment, for its header and its cells alike. */
+	interface Column {
+		header: string;
+		x: number;
+		width: number;
+		align: 'left' | 'right';
+	}
+	/** The header row of a table (again at the top of each page the table continues on). */
+	const tableHeader = (cols: readonly Column[], caption?: string) => {
+		if (caption) {
+			doc.font('Semi').fontSize(9).fillColor(TIDE).text(caption, MARGIN, doc.y, { width: W });
+			doc.moveDown(0.2);
+		}
+		doc.font('Semi').fontSize(8.5).fillColor(MUTED);
+		const y = doc.y;
+		for (const c of cols) doc.text(c.header, c.x, y, { width: c.width, align: c.align, lineBreak: false });
+		doc.moveTo(MARGIN, y + 12).lineTo(MARGIN + W, y + 12).lineWidth(0.4).strokeColor('#cbd5e1').stroke();
+		doc.y = y + 15;
+	};
+	/** Room for a row of `height`; on a new page, the table's header again with "(continued)". */
+	const rowRoom = (height: number, cols: readonly Column[], title: string) => {
+		if (ensure(height)) tableHeader(cols, `${title} (continued)`);
+	};
 
 	// ---- dealer and customer
 	const top = doc.y;
@@ -112,46 +140,54 @@ export async function buildQuotePdf(view: QuoteView, settings: PdfSettings): Pro
 			`${op.shiftsPerDay} shift${op.shiftsPerDay === 1 ? '' : 's'} of ${op.hoursPerShift} h, ${op.daysPerWeek} days a week, ${op.energyKwhPerHour} kWh per working hour, ${op.charging} charging.`
 	);
 
-	// ---- setup and why
+	// ---- setup and why it fits (the customer's words: no ranks, no cost comparisons)
+	const text = customerSetupText(result, input, setup.id);
 	heading(`The setup: ${setup.name}`);
 	para(
-		`${result.batteriesPerTruck} batter${result.batteriesPerTruck === 1 ? 'y' : 'ies'} per truck · equivalent battery usage ${result.ebu.toFixed(2)} · ${result.changesPerTruckPerDay} battery change${result.changesPerTruckPerDay === 1 ? '' : 's'} per truck a day.`
+		`${setup.batteriesPerTruck} batter${setup.batteriesPerTruck === 1 ? 'y' : 'ies'} per truck · ${setup.changesPerTruckPerDay} battery change${setup.changesPerTruckPerDay === 1 ? '' : 's'} per truck a day.`
 	);
-	for (const r of setup.reasons) para(`• ${r}`, { indent: 8 });
-	const others = result.setups.filter((s) => s.id !== setup.id).sort((a, b) => a.rank - b.rank);
-	if (others.length) {
+	doc.moveDown(0.2);
+	doc.font('Semi').fontSize(9.5).fillColor(INK).text('Why it fits your site', MARGIN, doc.y, { width: W });
+	for (const r of text.why) para(`• ${r}`, { indent: 8 });
+	if (text.others.length) {
 		doc.moveDown(0.3);
-		doc.font('Semi').fontSize(9.5).text('Why not the others', MARGIN, doc.y, { width: W });
-		for (const o of others) {
-			const problem = o.checks.find((c) => c.result === 'fail') ?? o.checks.find((c) => c.result === 'warn');
-			para(`• ${o.name} (rank ${o.rank}, ${o.verdict.replace(/-/g, ' ')}): ${problem ? problem.message : (o.reasons[0] ?? '')}`, { indent: 8 });
-		}
+		doc.font('Semi').fontSize(9.5).fillColor(INK).text('Other setups we checked', MARGIN, doc.y, { width: W });
+		for (const o of text.others) para(`• ${o.name} ${o.note}`, { indent: 8 });
 	}
 	if (setup.id !== 'in-truck') {
 		para('The latch adapter holds battery and trolley to the pallet truck; without it they would sit loose on the forks while moved.', { oblique: false });
 	}
 
-	// ---- checks
+	// ---- checks, by their names (never the engine's codes)
 	heading('Compatibility checks');
-	const cols = [MARGIN, MARGIN + 92, MARGIN + 132, MARGIN + 252, MARGIN + 372];
-	const checkRow = (c: Check) => {
-		const msg = printable(c.message + (c.remedy ? ` Remedy: ${c.remedy}` : ''));
+	const GAP = 6;
+	const checkCols: Column[] = (() => {
+		const widths = [104, 62, 76, 76];
+		const out: Column[] = [];
+		let x = MARGIN;
+		for (const [i, header] of ['Check', 'Result', 'Measured', 'Limit'].entries()) {
+			out.push({ header, x, width: widths[i], align: 'left' });
+			x += widths[i] + GAP;
+		}
+		out.push({ header: 'What it means', x, width: MARGIN + W - x, align: 'left' });
+		return out;
+	})();
+	const checkRow = (c: CustomerCheck) => {
+		const cells = [printable(c.name), c.resultLabel, figure(c.measured, c.unit), figure(c.limit, c.unit), printable(c.message + (c.remedy ? ` Remedy: ${c.remedy}` : ''))];
 		doc.font('Body').fontSize(8.5);
-		const h = Math.max(doc.heightOfString(msg, { width: W - (cols[4] - MARGIN) }), 11) + 4;
-		ensure(h);
+		const h = Math.max(...cells.map((t, i) => doc.heightOfString(t, { width: checkCols[i].width })), 11) + 5;
+		rowRoom(h, checkCols, 'Compatibility checks');
+		doc.fontSize(8.5);
 		const y = doc.y;
-		doc.fillColor(INK).font('Semi').text(c.code, cols[0], y, { width: 90 });
-		doc.fillColor(c.result === 'fail' ? RED : c.result === 'warn' ? EMBER : TIDE).text(c.result.toUpperCase(), cols[1], y, { width: 40 });
-		doc.fillColor(INK).font('Body').text(figure(c.measured, c.unit), cols[2], y, { width: 118 });
-		doc.text(figure(c.limit, c.unit), cols[3], y, { width: 118 });
-		doc.text(msg, cols[4], y, { width: W - (cols[4] - MARGIN) });
+		doc.fillColor(INK).font('Semi').text(cells[0], checkCols[0].x, y, { width: checkCols[0].width });
+		doc.fillColor(c.result === 'fail' ? RED : c.result === 'warn' ? EMBER : TIDE).text(cells[1], checkCols[1].x, y, { width: checkCols[1].width });
+		doc.fillColor(INK).font('Body');
+		for (let i = 2; i < cells.length; i++) doc.text(cells[i], checkCols[i].x, y, { width: checkCols[i].width });
 		doc.y = y + h;
 	};
-	doc.font('Semi').fontSize(8.5).fillColor(MUTED);
-	const hy = doc.y;
-	['Check', 'Result', 'Measured', 'Limit', 'What it means'].forEach((t, i) => doc.text(t, cols[i], hy, { width: 110 }));
-	doc.y = hy + 13;
-	for (const c of setup.checks) checkRow(c);
+	ensure(40);
+	tableHeader(checkCols);
+	for (const c of text.checks) checkRow(c);
 
 	// ---- drawing
 	heading('Side view of the compartment, to scale');
@@ -169,44 +205,58 @@ export async function buildQuotePdf(view: QuoteView, settings: PdfSettings): Pro
 	drawCompartmentScene(doc, scene, { x: MARGIN, y: dy, width: W, height: 230, system: 'metric', font: 'Body' });
 	doc.y = dy + 236;
 
-	// ---- priced lines
+	// ---- priced lines: numbers right-aligned under right-aligned headers, each column its own box
 	heading('Price');
-	const pc = [MARGIN, MARGIN + 250, MARGIN + 290, MARGIN + 370, MARGIN + 420];
-	doc.font('Semi').fontSize(8.5).fillColor(MUTED);
-	const py = doc.y;
-	['Item', 'Qty', 'Unit price', 'Discount', 'Amount'].forEach((t, i) => doc.text(t, pc[i], py, { width: i === 0 ? 245 : 75, align: i === 0 ? 'left' : 'right' }));
-	doc.y = py + 13;
+	const priceCols: Column[] = [
+		{ header: 'Item', x: MARGIN, width: 250, align: 'left' },
+		{ header: 'Qty', x: MARGIN + 256, width: 40, align: 'right' },
+		{ header: 'Unit price', x: MARGIN + 302, width: 82, align: 'right' },
+		{ header: 'Discount', x: MARGIN + 390, width: 50, align: 'right' },
+		{ header: 'Amount', x: MARGIN + 446, width: W - 446, align: 'right' }
+	];
+	ensure(40);
+	tableHeader(priceCols);
 	for (const l of view.lines) {
 		const priced = priceLine({ ...l, kind: l.kind as LineKind, noCharge: l.noCharge });
-		const desc = printable(`${l.description} (${l.sku})`);
+		const cells = [
+			printable(`${l.description} (${l.sku})`),
+			String(l.quantity),
+			l.noCharge ? 'included' : money(l.unitListCents),
+			priced.lineDiscountBp > 0 ? formatBp(priced.lineDiscountBp) : '',
+			l.noCharge ? money(0) : money(priced.netCents)
+		];
 		doc.font('Body').fontSize(8.5);
-		const h = Math.max(doc.heightOfString(desc, { width: 245 }), 11) + 3;
-		ensure(h);
+		const h = Math.max(doc.heightOfString(cells[0], { width: priceCols[0].width }), 11) + 4;
+		rowRoom(h, priceCols, 'Price');
 		const y = doc.y;
-		doc.fillColor(INK).text(desc, pc[0], y, { width: 245 });
-		doc.text(String(l.quantity), pc[1], y, { width: 35, align: 'right' });
-		doc.text(l.noCharge ? 'included' : money(l.unitListCents), pc[2], y, { width: 75, align: 'right' });
-		doc.text(priced.lineDiscountBp ? formatBp(priced.lineDiscountBp) : '', pc[3], y, { width: 45, align: 'right' });
-		doc.text(l.noCharge ? money(0) : money(priced.netCents), pc[4], y, { width: W - (pc[4] - MARGIN), align: 'right' });
+		doc.font('Body').fontSize(8.5).fillColor(INK);
+		for (const [i, c] of priceCols.entries()) doc.text(cells[i], c.x, y, { width: c.width, align: c.align });
 		doc.y = y + h;
 	}
 	const t = rev.totals;
+	const amount = priceCols[4];
+	const labelX = MARGIN + 150;
 	const totalRow = (label: string, value: string, bold = false) => {
 		ensure(14);
 		const y = doc.y;
-		doc.font(bold ? 'Bold' : 'Body').fontSize(bold ? 10.5 : 9).fillColor(INK).text(label, pc[2] - 120, y, { width: 250, align: 'right' });
-		doc.text(value, pc[4], y, { width: W - (pc[4] - MARGIN), align: 'right' });
+		doc.font(bold ? 'Bold' : 'Body').fontSize(bold ? 10.5 : 9).fillColor(INK).text(label, labelX, y, { width: amount.x - 8 - labelX, align: 'right' });
+		doc.text(value, amount.x - 30, y, { width: amount.width + 30, align: 'right' });
 		doc.y = y + (bold ? 15 : 12);
 	};
-	doc.moveTo(pc[2] - 120, doc.y + 2).lineTo(MARGIN + W, doc.y + 2).lineWidth(0.5).strokeColor(MUTED).stroke();
+	ensure(30);
+	doc.moveTo(labelX, doc.y + 2).lineTo(MARGIN + W, doc.y + 2).lineWidth(0.5).strokeColor(MUTED).stroke();
 	doc.y += 6;
 	totalRow('Subtotal', money(t.subtotalCents));
-	if (t.overallDiscountCents) totalRow(`Discount (${formatBp(t.overallDiscountBp)})`, `−${money(t.overallDiscountCents)}`);
-	totalRow('Net before tax', money(t.netBeforeTaxCents));
-	totalRow(`Tax${rev.taxLabel ? ` — ${printable(rev.taxLabel)}` : ''} (${formatBp(t.taxRateBp)})`, money(t.taxCents));
+	if (t.overallDiscountCents > 0) totalRow(`Discount (${formatBp(t.overallDiscountBp)})`, `−${money(t.overallDiscountCents)}`);
+	// a tax line only when a rate applies (company settings: a region without a rate gets none)
+	if (showsTaxLine(rev)) {
+		totalRow('Net before tax', money(t.netBeforeTaxCents));
+		totalRow(`Tax${rev.taxLabel ? ` — ${printable(rev.taxLabel)}` : ''} (${formatBp(t.taxRateBp)})`, money(t.taxCents));
+	}
 	totalRow('Total', money(t.totalCents), true);
 	totalRow(`Deposit due on acceptance (${formatBp(t.depositShareBp)})`, money(t.depositCents), true);
 	totalRow('Balance due on delivery', money(t.balanceCents));
+	doc.moveDown(0.4);
 	para(`This quote is valid until ${quoteDate(rev.validUntil, tz)}. Prices from price book ${printable(rev.priceBookLabel)}.`);
 	if (rev.notes) {
 		heading('Notes');

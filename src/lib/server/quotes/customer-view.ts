@@ -3,6 +3,8 @@ import { getQuote, type QuoteView } from '../repositories/quotes';
 import { resolveLink, type ResolvedLink } from './customer-links';
 import { isPastValidity } from './states';
 import { priceLine, type LineKind } from './pricing';
+import { customerSetupText, showsTaxLine } from './customer-text';
+import type { EvaluateResult, ResolvedInput } from '../rules/types';
 
 /**
  * Checks a customer link: 404 for a token never issued, 410 for a superseded revision or an expired
@@ -28,10 +30,17 @@ export async function openLink(token: string, now = new Date()): Promise<{ link:
 	return { link, quote: found.value };
 }
 
-/** What the customer may see of a quote: no costs, margins or internal notes on lines. */
+/**
+ * What the customer may see of a quote: no costs, margins or internal notes on lines, and of the
+ * engine's answer only the chosen setup in the customer's words (customer-text.ts), the checks and
+ * what the to-scale drawing needs — not the ranking, the other setups' costs or the catalogue prices.
+ */
 export function customerSafe(q: QuoteView) {
 	const rev = q.revision;
 	const t = rev.totals;
+	const result = rev.engineResult as EvaluateResult;
+	const input = rev.engineInput as ResolvedInput;
+	const setup = result.setups.find((s) => s.id === rev.setupId) ?? result.setups[0];
 	return {
 		number: rev.number,
 		revision: rev.revision,
@@ -49,8 +58,23 @@ export function customerSafe(q: QuoteView) {
 		terms: rev.terms,
 		notes: rev.notes,
 		taxLabel: rev.taxLabel,
-		engineResult: rev.engineResult,
-		engineInput: rev.engineInput,
+		// a tax line only when a rate applies (company settings: a region without a rate gets none)
+		showTax: showsTaxLine(rev),
+		setup: {
+			batteriesPerTruck: setup.batteriesPerTruck,
+			changesPerTruckPerDay: setup.changesPerTruckPerDay,
+			...customerSetupText(result, input, setup.id)
+		},
+		cautions: result.cautions,
+		drawing: {
+			setup: setup.id,
+			truck: input.truck,
+			battery: input.battery,
+			palletTruck: input.site.palletTrucks[0],
+			stand: input.site.rollerStands[0],
+			crane: input.site.crane,
+			checks: setup.checks
+		},
 		lines: q.lines.map((l) => {
 			const p = priceLine({ ...l, kind: l.kind as LineKind });
 			return {

@@ -330,6 +330,18 @@ describe('refusal messages', () => {
 		);
 	});
 
+	it('refuse submit and mark-ready while the quote lacks a contact, an address or a tax decision', () => {
+		const missing = ["Add the customer contact's e-mail address: the quote and its private link are sent there."];
+		expect(refusal('draft', 'submit', 'rep', { ...needs, missing })).toBe(`Before this quote can be submitted for approval: ${missing[0]}`);
+		expect(refusal('changes-requested', 'mark-ready', 'rep', { ...clear, missing })).toBe(`Before this quote can be marked ready to send: ${missing[0]}`);
+		// the approval rule still speaks first: the rep learns which button is the right one
+		expect(refusal('draft', 'submit', 'rep', { ...clear, missing })).toMatch(/needs no approval/);
+		expect(transition('draft', 'submit', { role: 'rep' }, { ...needs, missing: [] }).ok).toBe(true);
+		expect(transition('draft', 'mark-ready', { role: 'rep' }, { ...clear, missing: [] }).ok).toBe(true);
+		// other actions do not look at it
+		expect(transition('awaiting-approval', 'approve', { role: 'manager' }, { ...needs, missing }).ok).toBe(true);
+	});
+
 	it('require a real comment to send a quote back', () => {
 		const blank = { ...needs, comment: '   ' };
 		expect(refusal('awaiting-approval', 'request-changes', 'manager', blank)).toBe(

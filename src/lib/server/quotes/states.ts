@@ -7,6 +7,9 @@
  *     │  ◀─(edit in place)─ changes-requested ◀─request-changes─┘        │               │
  *     └──mark-ready (no approval needed)──▶ approved                    └────accept─────┴─▶ accepted
  *                                                                              ──pay──▶ deposit-paid
+ *   submit and mark-ready also need the quote's contact name, a valid contact e-mail and a tax
+ *   decision (`context.missing`, from `$lib/quote-readiness`): an approved quote must be sendable.
+ *   `approved` reached by mark-ready is shown as "Ready to send" (`$lib/quote-labels`).
  *   expire: draft … viewed, once the validity date has passed → expired
  *   revise: approved, sent, viewed, expired → superseded, and revision n + 1 starts as a draft
  *
@@ -28,6 +31,7 @@
  * or accept it, and the system may expire it. Staff actions ignore the date: sending sets a new one.
  */
 import type { Role } from '../auth/types';
+import { QUOTE_STATE_LABELS } from '../../quote-labels';
 
 export const QUOTE_STATES = [
 	'draft',
@@ -64,19 +68,11 @@ export const ACTOR_ROLES: readonly ActorRole[] = ['rep', 'manager', 'admin', 'cu
 /** The state a new revision starts in. */
 export const REVISION_START_STATE: QuoteState = 'draft';
 
-/** Names for the UI. */
-export const STATE_LABELS: Record<QuoteState, string> = {
-	draft: 'Draft',
-	'awaiting-approval': 'Awaiting approval',
-	approved: 'Approved',
-	'changes-requested': 'Changes requested',
-	sent: 'Sent',
-	viewed: 'Viewed',
-	accepted: 'Accepted',
-	'deposit-paid': 'Deposit paid',
-	expired: 'Expired',
-	superseded: 'Superseded'
-};
+/**
+ * Names for the UI (from `$lib/quote-labels`, which the pages share). `approved` is also reached by
+ * "mark ready" without a manager: `quoteStateLabel` there names that case "Ready to send".
+ */
+export const STATE_LABELS = Object.fromEntries(QUOTE_STATES.map((s) => [s, QUOTE_STATE_LABELS[s]])) as Record<QuoteState, string>;
 
 /** Button and history labels for the UI. */
 export const ACTION_LABELS: Record<QuoteAction, string> = {
@@ -100,6 +96,11 @@ export interface TransitionContext {
 	validUntil: Date;
 	/** why; required to send a quote back for changes, stored with any action that has one */
 	comment?: string;
+	/**
+	 * What the quote still lacks before it leaves the rep's hands (contact, e-mail, a tax decision;
+	 * `$lib/quote-readiness`): when not empty, submit and mark-ready are refused with these sentences.
+	 */
+	missing?: readonly string[];
 }
 
 /** What to store for a transition; the caller adds the user's id. */
@@ -215,7 +216,7 @@ const RULES: Record<QuoteAction, ActionRule> = {
 const STATE_PHRASES: Record<QuoteState, string> = {
 	draft: 'is still a draft',
 	'awaiting-approval': "is waiting for a manager's approval",
-	approved: 'is approved and ready to send',
+	approved: 'is ready to send',
 	'changes-requested': 'was sent back for changes',
 	sent: 'has been sent to the customer',
 	viewed: 'has been opened by the customer',
@@ -295,6 +296,11 @@ function stateRefusal(action: QuoteAction, state: QuoteState, context: Transitio
 	return `This quote ${STATE_PHRASES[state]}, so it cannot be ${RULES[action].done}.`;
 }
 
+function missingRefusal(done: string, missing: readonly string[] | undefined): string | null {
+	if (!missing || missing.length === 0) return null;
+	return `Before this quote can be ${done}: ${missing.join(' ')}`;
+}
+
 /** The message for an action allowed from this state whose condition is not met, or null. */
 function conditionRefusal(
 	action: QuoteAction,
@@ -305,13 +311,13 @@ function conditionRefusal(
 	const past = isPastValidity(context.now, context.validUntil);
 	switch (action) {
 		case 'submit':
-			return context.approvalRequired
-				? null
-				: "This quote is within the rep's discount authority and above the margin floor, so it needs no approval: mark it ready to send instead.";
+			if (!context.approvalRequired)
+				return "This quote is within the rep's discount authority and above the margin floor, so it needs no approval: mark it ready to send instead.";
+			return missingRefusal('submitted for approval', context.missing);
 		case 'mark-ready':
-			return context.approvalRequired
-				? "This quote needs a manager's approval before it can be sent: submit it for approval."
-				: null;
+			if (context.approvalRequired)
+				return "This quote needs a manager's approval before it can be sent: submit it for approval.";
+			return missingRefusal('marked ready to send', context.missing);
 		case 'request-changes':
 			return comment === null && !commentComesLater
 				? 'Write a comment saying what needs to change before sending the quote back.'

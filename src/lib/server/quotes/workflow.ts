@@ -26,9 +26,18 @@ import { needsApproval } from './approval';
 import { transition, type ActorRole, type QuoteAction } from './states';
 import { formatQuoteNumber, validUntil } from './numbering';
 import { buildQuotePdf, type PdfSettings } from '../pdf/quote-pdf';
+import { readinessProblems, taxUndecided } from '../../quote-readiness';
 import { notifyQuoteEvent, type QuoteEventNotice } from './notify';
 
-export type Outcome<T = undefined> = { ok: true; value: T } | { ok: false; status: 400 | 403 | 404 | 409; message: string };
+export type Outcome<T = undefined> =
+	| { ok: true; value: T }
+	| {
+			ok: false;
+			status: 400 | 403 | 404 | 409;
+			message: string;
+			/** the edit field the refusal is about (`lines.3.sku`, `taxRegion`), for the form to mark */
+			field?: string;
+	  };
 
 const SETUP_KINDS: ReadonlySet<EquipmentKind> = new Set([
 	'side-door',
@@ -56,6 +65,19 @@ export type SetupLine = Omit<NewLine, 'unitListCents' | 'unitCostCents' | 'inPri
 	/** the engine's catalogue price, used when the price book lacks the SKU */
 	enginePriceCents: number;
 };
+
+/**
+ * What each of two battery lines is for, added to its description when a setup adds batteries to
+ * the ones in the trucks: both lines carry the same battery (same SKU, same price), and without
+ * these words the customer reads the same item twice and suspects a double charge.
+ */
+export const BATTERY_IN_TRUCKS_NOTE = 'one fitted in each truck';
+export const BATTERY_SPARES_NOTE = 'extra batteries for the exchange rotation';
+
+/** `description` with what the battery line is for, when the quote also has the other battery line. */
+export function batteryLineDescription(description: string, role: 'in-trucks' | 'spares'): string {
+	return `${description} — ${role === 'in-trucks' ? BATTERY_IN_TRUCKS_NOTE : BATTERY_SPARES_NOTE}`;
+}
 
 export function linesForSetup(input: ResolvedInput, setup: SetupResult): SetupLine[] {
 	const trucks = input.fleet.trucks;
@@ -150,18 +172,25 @@ export async function createQuoteFromSurvey(surveyId: string, user: SessionUser,
 		replacements: { id: survey.siteId },
 		type: QueryTypes.SELECT
 	});
-	const region = sites[0]?.region_code || null;
-	const tax = region ? await taxRateFor(region) : null;
+	const siteRegion = sites[0]?.region_code?.trim() || null;
+	const tax = siteRegion ? await taxRateFor(siteRegion) : null;
+	// the rate's own code when one is found; a region with no rate stays on the quote, undecided,
+	// until the rep picks a rate or "No tax / exempt" (quote-readiness.ts)
+	const region = tax?.regionCode ?? siteRegion;
 
 	const draftLines = linesForSetup(input, setup);
 	const prices = await priceItems(book.id, draftLines.map((l) => l.sku));
+	// the batteries in the trucks and the setup's extra batteries are two lines of one battery
+	const hasSpares = draftLines.some((l) => l.source === 'bom' && l.kind === 'battery');
 	const lines: NewLine[] = draftLines
 		.map((l) => {
 			const p = prices.get(l.sku);
 			const list = p ? p.listCents : l.enginePriceCents;
+			const description = p?.description && l.source !== 'bom' ? p.description : l.description;
+			const batteryRole = !hasSpares || l.kind !== 'battery' ? null : l.source === 'bom' ? 'spares' : l.source === 'truck' ? 'in-trucks' : null;
 			return {
 				sku: l.sku,
-				description: p?.description && l.source !== 'bom' ? p.description : l.description,
+				description: batteryRole ? batteryLineDescription(description, batteryRole) : description,
 				kind: l.kind,
 				quantity: l.quantity,
 				unitListCents: list,
@@ -273,18 +302,31 @@ export interface DraftEdit {
 /**
  * The lines of an edit, priced from the quote's own price-book version (never from the browser).
  * A SKU that is neither on the quote nor in its price book is refused.
+ *
+ * Each edited line keeps the description, kind and reason of the quote line it edits: the line at
+ * the same position when it has the same SKU, else the first line with that SKU not yet taken. One
+ * SKU may be on two lines (the batteries in the trucks and the extra ones), each with its own words.
  */
 export async function linesFromEdit(
 	q: QuoteView,
 	edits: DraftEdit['lines']
-): Promise<{ ok: true; value: NewLine[] } | { ok: false; status: 400; message: string }> {
-	const current = new Map(q.lines.map((l) => [l.sku, l]));
+): Promise<{ ok: true; value: NewLine[] } | { ok: false; status: 400; message: string; field: string }> {
 	const prices = await priceItems(q.revision.priceBookVersionId, edits.map((l) => l.sku));
+	const taken = new Set<number>();
+	const match = (sku: string, i: number) => {
+		let at = q.lines[i]?.sku === sku && !taken.has(i) ? i : q.lines.findIndex((l, j) => l.sku === sku && !taken.has(j));
+		if (at < 0) at = q.lines.findIndex((l) => l.sku === sku);
+		if (at < 0) return undefined;
+		taken.add(at);
+		return q.lines[at];
+	};
 	const lines: NewLine[] = [];
-	for (const l of edits) {
-		const known = current.get(l.sku);
+	for (const [i, l] of edits.entries()) {
+		const known = match(l.sku, i);
 		const p = prices.get(l.sku);
-		if (!known && !p) return { ok: false, status: 400, message: `“${l.sku}” is not in this quote's price book.` };
+		if (!known && !p) {
+			return { ok: false, status: 400, message: `Line ${i + 1}: “${l.sku}” is not in this quote's price book.`, field: `lines.${i}.sku` };
+		}
 		const unitList = p ? p.listCents : known!.unitListCents;
 		lines.push({
 			sku: l.sku,
@@ -333,9 +375,18 @@ export async function saveDraft(quoteId: string, user: SessionUser, edit: DraftE
 		let taxLabel = q.revision.taxLabel;
 		if (edit.taxRegion !== q.revision.taxRegion) {
 			const tax = edit.taxRegion ? await taxRateFor(edit.taxRegion) : null;
-			if (edit.taxRegion && !tax) return { ok: false, status: 400, message: `No tax rate is set up for region “${edit.taxRegion}”.` };
+			if (edit.taxRegion && !tax) {
+				return { ok: false, status: 400, message: `No tax rate is set up for region “${edit.taxRegion}”: choose one from the list, or “No tax / exempt”.`, field: 'taxRegion' };
+			}
 			taxRateBp = tax?.rateBp ?? 0;
 			taxLabel = tax?.label ?? null;
+		} else if (edit.taxRegion && taxUndecided(q.revision)) {
+			// still the site's region without a rate: it stays undecided unless a rate was added since
+			const tax = await taxRateFor(edit.taxRegion);
+			if (tax) {
+				taxRateBp = tax.rateBp;
+				taxLabel = tax.label;
+			}
 		}
 		const { priced, approval } = figures(lines, { overallDiscountBp: edit.overallDiscountBp, taxRateBp, depositShareBp: q.revision.depositShareBp }, settings);
 		await replaceLines(q.revision.id, lines, t);
@@ -407,7 +458,9 @@ export async function act(
 			approvalRequired: rev.approvalRequired,
 			now,
 			validUntil: rev.validUntil ? new Date(rev.validUntil) : FAR_FUTURE,
-			comment: opts.comment
+			comment: opts.comment,
+			// a quote leaves the rep's hands only with a contact, a valid address and a tax decision
+			missing: action === 'submit' || action === 'mark-ready' ? readinessProblems(rev).map((p) => p.message) : undefined
 		});
 		if (!decision.ok) return { ok: false, status: 409, message: decision.message };
 		if (!decision.record) return { ok: true, value: { state: rev.state, revisionId: rev.id, changed: false } };

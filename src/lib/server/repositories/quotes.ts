@@ -455,6 +455,60 @@ export async function listQuotes(viewer: SessionUser, f: QuoteFilters = {}): Pro
 	};
 }
 
+export interface ApprovalQueueRow {
+	id: string;
+	number: string;
+	customerName: string;
+	setupName: string;
+	ownerName: string;
+	totalCents: number;
+	effectiveDiscountBp: number;
+	marginBp: number | null;
+	/** why the figures need a manager, one sentence each (approval.ts) */
+	approvalReasons: string[];
+	/** when this revision was last submitted for approval */
+	submittedAt: string;
+}
+
+/**
+ * Quotes waiting for a manager, longest-waiting first, with the approval rule's reasons and when
+ * each was submitted (one statement).
+ */
+export async function listAwaitingApproval(viewer: SessionUser, limit = 100): Promise<ApprovalQueueRow[]> {
+	const where = ["qr.state = 'awaiting-approval'", 'qr.revision = (SELECT max(revision) FROM quote_revisions x WHERE x.quote_id = q.id)'];
+	const rep: Record<string, unknown> = { limit };
+	if (recordScope(viewer.role) === 'team') {
+		where.push(viewer.teamId ? '(q.owner_id = :me OR q.team_id = :team)' : 'q.owner_id = :me');
+		rep.me = viewer.id;
+		rep.team = viewer.teamId;
+	}
+	const rows = await sequelize.query<Record<string, unknown>>(
+		`SELECT q.id, qr.number, c.name AS customer_name, qr.setup_name, u.name AS owner_name, qr.totals, qr.approval_reasons,
+		        coalesce(sub.at, qr.updated_at) AS submitted_at
+		 FROM quotes q JOIN quote_revisions qr ON qr.quote_id = q.id
+		 JOIN customers c ON c.id = q.customer_id JOIN users u ON u.id = q.owner_id
+		 LEFT JOIN LATERAL (SELECT max(e.at) AS at FROM quote_events e WHERE e.quote_id = q.id AND e.revision_id = qr.id AND e.action = 'submit') sub ON true
+		 WHERE ${where.join(' AND ')}
+		 ORDER BY submitted_at ASC, q.id LIMIT :limit`,
+		{ replacements: rep, type: QueryTypes.SELECT }
+	);
+	return rows.map((r) => {
+		const t = (r.totals as Partial<QuoteTotals>) ?? {};
+		return {
+			id: r.id as string,
+			number: r.number as string,
+			customerName: r.customer_name as string,
+			setupName: r.setup_name as string,
+			ownerName: r.owner_name as string,
+			totalCents: n(t.totalCents),
+			effectiveDiscountBp: n(t.effectiveDiscountBp),
+			marginBp: t.marginBp == null ? null : n(t.marginBp),
+			approvalReasons: Array.isArray(r.approval_reasons) ? (r.approval_reasons as string[]) : [],
+			submittedAt: iso(r.submitted_at)!
+		};
+	});
+}
+
 /** Figures for the manager's dashboard, in a few aggregate queries. */
 export async function pipelineFigures(): Promise<{
 	byState: { state: QuoteState; count: number; totalCents: number }[];

@@ -1,9 +1,11 @@
 import { requirePermission } from '$lib/server/auth/guard';
-import { listQuotes } from '$lib/server/repositories/quotes';
+import { listAwaitingApproval } from '$lib/server/repositories/quotes';
+import { getCompanySettings } from '$lib/server/repositories/pricing';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
 	const user = requirePermission(event, 'quote:approve');
-	const { rows } = await listQuotes(user, { state: 'awaiting-approval', sort: 'updated', dir: 'asc', pageSize: 100 });
-	return { rows };
+	const [rows, settings] = await Promise.all([listAwaitingApproval(user), getCompanySettings()]);
+	// one clock for every row's "waiting for", the server's, so the page and its hydration agree
+	return { rows, now: new Date().toISOString(), timeZone: settings.timeZone || 'UTC' };
 };

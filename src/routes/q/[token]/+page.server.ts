@@ -69,7 +69,8 @@ export const actions: Actions = {
 			return done;
 		});
 		if (!outcome.ok) return fail(409, { fullName: parsed.data.fullName, errors: { form: [outcome.message] } });
-		redirect(303, `/q/${params.token}?accepted=1`);
+		// straight to the deposit step, which follows the acceptance (the page focuses it too)
+		redirect(303, `/q/${params.token}?accepted=1#deposit`);
 	},
 	pay: async ({ params }) => {
 		const { link, quote } = await openLink(params.token);
@@ -87,7 +88,8 @@ export const actions: Actions = {
 				description: `Deposit for quote ${quote.revision.number}`,
 				customerEmail: quote.revision.contactEmail || null,
 				successUrl: `${base}/q/${params.token}/paid?session={CHECKOUT_SESSION_ID}`,
-				cancelUrl: `${base}/q/${params.token}`
+				// back without paying: the page says the deposit is still due, at the deposit step
+				cancelUrl: `${base}/q/${params.token}?payment=cancelled#deposit`
 			});
 		} catch (err) {
 			if (err instanceof PaymentsUnavailableError || err instanceof PaymentsRequestError) {

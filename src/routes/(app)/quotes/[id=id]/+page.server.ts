@@ -7,6 +7,8 @@ import { getCompanySettings, listTaxRates } from '$lib/server/repositories/prici
 import { allowedActions } from '$lib/server/quotes/states';
 import { ACTION_PERMISSION, act, figures, saveDraft } from '$lib/server/quotes/workflow';
 import { deliveryTrail } from '$lib/server/quotes/trail';
+import { describeEditIssues } from '$lib/server/quotes/edit-errors';
+import { readinessProblems } from '$lib/quote-readiness';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
@@ -25,6 +27,12 @@ export const load: PageServerLoad = async (event) => {
 			}).filter((a) => a !== 'view' && a !== 'accept' && a !== 'pay' && a !== 'expire')
 		: [];
 	const { priced } = figures(q.lines, q.revision, settings);
+	// the manager's latest "send back" on this revision, shown at the top while it waits for the rep
+	const changeRequest =
+		q.revision.state === 'changes-requested'
+			? (q.events.filter((e) => e.action === 'request-changes' && e.revision === q.revision.revision).at(-1) ?? null)
+			: null;
+	const siteRegionRate = q.siteRegion ? (taxRates.find((t) => t.regionCode === q.siteRegion!.trim().toUpperCase()) ?? null) : null;
 	return {
 		quote: q,
 		pricedLines: priced.lines.map((l) => ({ netCents: l.netCents, marginBp: l.marginBp })),
@@ -33,6 +41,11 @@ export const load: PageServerLoad = async (event) => {
 		canEdit: latest && can(user.role, 'quote:edit') && (q.revision.state === 'draft' || q.revision.state === 'changes-requested'),
 		seeCost: can(user.role, 'quote:see-cost'),
 		policy: { repDiscountAuthorityBp: settings.repDiscountAuthorityBp, marginFloorBp: settings.marginFloorBp },
+		viewerRole: user.role,
+		// what stops submit / mark-ready now, from the saved revision (the server checks it again)
+		readiness: readinessProblems(q.revision),
+		tax: { siteRegion: q.siteRegion, siteRegionHasRate: !!siteRegionRate },
+		changeRequest: changeRequest && { comment: changeRequest.comment, by: changeRequest.actorName ?? 'A sales manager', at: changeRequest.at },
 		taxRates,
 		trail,
 		timeZone: settings.timeZone || 'UTC'
@@ -51,8 +64,10 @@ function parsePayload(raw: FormDataEntryValue | null): unknown {
 export const actions: Actions = {
 	save: async (event) => {
 		const user = requirePermission(event, 'quote:edit');
-		const parsed = quoteEditSchema.safeParse(parsePayload((await event.request.formData()).get('payload')));
-		if (!parsed.success) return fail(400, { error: parsed.error.issues[0]?.message ?? 'Check the lines.' });
+		const raw = parsePayload((await event.request.formData()).get('payload'));
+		if (raw === null) return fail(400, { error: 'The changes could not be read; reload the page and make them again.', errors: {} });
+		const parsed = quoteEditSchema.safeParse(raw);
+		if (!parsed.success) return fail(400, describeEditIssues(parsed.error.issues, raw));
 		const d = parsed.data;
 		const saved = await saveDraft(event.params.id, user, {
 			overallDiscountBp: d.overallDiscountPercent,
@@ -62,7 +77,7 @@ export const actions: Actions = {
 			contactEmail: d.contactEmail,
 			lines: d.lines.map((l) => ({ sku: l.sku, quantity: l.quantity, lineDiscountBp: l.discountPercent }))
 		});
-		if (!saved.ok) return fail(saved.status, { error: saved.message });
+		if (!saved.ok) return fail(saved.status, { error: saved.message, errors: saved.field ? { [saved.field]: [saved.message] } : {} });
 		return { saved: true };
 	},
 	act: async (event) => {

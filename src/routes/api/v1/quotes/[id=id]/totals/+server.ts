@@ -3,7 +3,7 @@ import { requirePermission } from '$lib/server/auth/guard';
 import { quoteEditSchema } from '$lib/schemas/quote';
 import { getQuote } from '$lib/server/repositories/quotes';
 import { getCompanySettings, taxRateFor } from '$lib/server/repositories/pricing';
-import { fieldErrors } from '$lib/server/evaluation';
+import { describeEditIssues } from '$lib/server/quotes/edit-errors';
 import { figures, linesFromEdit } from '$lib/server/quotes/workflow';
 import { readJsonBody } from '$lib/server/json-body';
 import type { RequestHandler } from './$types';
@@ -20,13 +20,16 @@ export const POST: RequestHandler = async (event) => {
 	const body = await readJsonBody(event.request, 200_000);
 	if (!body.ok) return body.response;
 	const parsed = quoteEditSchema.safeParse(body.value);
-	if (!parsed.success) return json({ message: 'Check the figures.', errors: fieldErrors(parsed.error.issues) }, { status: 400 });
+	if (!parsed.success) {
+		const { error: message, errors } = describeEditIssues(parsed.error.issues, body.value);
+		return json({ message, errors }, { status: 400 });
+	}
 	const d = parsed.data;
 	const priced = await linesFromEdit(
 		q,
 		d.lines.map((l) => ({ sku: l.sku, quantity: l.quantity, lineDiscountBp: l.discountPercent }))
 	);
-	if (!priced.ok) return json({ message: priced.message, errors: { lines: [priced.message] } }, { status: 400 });
+	if (!priced.ok) return json({ message: priced.message, errors: { [priced.field]: [priced.message] } }, { status: 400 });
 	const lines = priced.value;
 	const settings = await getCompanySettings();
 	const tax = d.taxRegion ? await taxRateFor(d.taxRegion) : null;
