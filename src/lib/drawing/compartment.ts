@@ -17,6 +17,7 @@
  */
 
 import { formatLength, type UnitSystem } from '$lib/units';
+import { SETUP_LABELS } from '../labels';
 
 // ---------------------------------------------------------------------------------------------
 // Input
@@ -835,12 +836,7 @@ export function primitiveBoxes(p: ScenePrimitive, textMm: number): SceneBox[] {
 // ---------------------------------------------------------------------------------------------
 // The scene
 
-const SETUP_TITLES: Record<DrawingSetupId, string> = {
-	'in-truck': 'Service in truck',
-	'roller-bed': 'Side transfer',
-	'trolley-stand': 'Trolley exchange',
-	'overhead-hoist': 'Hoist exchange'
-};
+const SETUP_TITLES = SETUP_LABELS as Record<DrawingSetupId, string>;
 
 function toneOf(c: DrawingCheck | undefined): SceneTone {
 	if (!c) return 'normal';

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { checkHoursPerDay } from './evaluate';
 import { formatLength, formatMass } from '../units';
+import { STEP_LABELS } from '../labels';
 
 /**
  * The site survey, one schema per wizard step. Values are stored in SI units (mm, kg, m³/h, m²)
@@ -10,15 +11,7 @@ import { formatLength, formatMass } from '../units';
 
 export const SURVEY_STEPS = ['site', 'fleet', 'operation', 'equipment', 'charging', 'notes', 'review'] as const;
 export type SurveyStep = (typeof SURVEY_STEPS)[number];
-export const STEP_TITLES: Record<SurveyStep, string> = {
-	site: 'Site and contact',
-	fleet: 'Trucks and battery',
-	operation: 'Operation',
-	equipment: 'Existing equipment',
-	charging: 'Charging area',
-	notes: 'Photos and notes',
-	review: 'Review'
-};
+export const STEP_TITLES = STEP_LABELS as Record<SurveyStep, string>;
 
 // Range messages state the range, so the rep knows what to type instead.
 const mm = (label: string, max = 5_000) =>
