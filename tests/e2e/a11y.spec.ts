@@ -2,6 +2,7 @@ import { expect, test, type APIRequestContext, type Browser, type Page } from '@
 import AxeBuilder from '@axe-core/playwright';
 import pg from 'pg';
 import { DEMO_PASSWORD, hydrated, shot, signIn } from './helpers';
+import { demoSurveySteps } from '../helpers/survey-steps';
 
 // Accessibility (issue 7, item 2): an axe scan (WCAG 2 A and AA rules) of every main page for each
 // role and for the customer, with no serious or critical findings; and the survey wizard walked
@@ -68,37 +69,11 @@ async function prepare(browser: Browser, baseURL: string): Promise<Fixture> {
 			clientToken: crypto.randomUUID()
 		});
 		const surveyId = /\/surveys\/([0-9a-f-]{36})\//.exec(start.headers()['location'])![1];
-		const steps: Record<string, unknown> = {
-			site: { contactName: 'Dana Quillfeather', contactEmail: email },
-			fleet: {
-				truckModelId: truck.id,
-				trucks: 6,
-				batterySource: 'catalogue',
-				batteryId: battery.id
-			},
-			operation: {
-				shiftsPerDay: 3,
-				hoursPerShift: 8,
-				daysPerWeek: 5,
-				duty: 'medium',
-				energyKwhPerHour: 3.5,
-				charging: 'conventional'
-			},
-			equipment: {
-				palletTrucks: [{ forkLengthMm: 1150, overallWidthMm: 540, capacityKg: 2000 }],
-				rollerStands: [],
-				hasCrane: true,
-				craneRatedLoadKg: 2000,
-				hasBeam: true,
-				beamWeightKg: 90
-			},
-			charging: {
-				hasArea: true,
-				floorAreaM2: 40,
-				ventilationM3h: 150,
-				eyewash: true,
-				neutraliser: true
-			},
+		const steps = {
+			...demoSurveySteps(
+				{ customerId: customer.id, siteId: customer.sites[0].id, truckId: truck.id, batteryId: battery.id },
+				{ contactEmail: email }
+			),
 			notes: { notes: 'Hoist over bay 2.' }
 		};
 		for (const [step, values] of Object.entries(steps))

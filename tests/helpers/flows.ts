@@ -8,13 +8,10 @@ import { QueryTypes } from 'sequelize';
 import { sequelize } from '../../src/lib/server/db';
 import { allPriceItems, getActivePriceBook } from '../../src/lib/server/repositories/pricing';
 import type { Client } from './http';
+import { demoSurveySteps, type DemoIds } from './survey-steps';
 
-export interface DemoIds {
-	customerId: string;
-	siteId: string;
-	truckId: string;
-	batteryId: string;
-}
+export { demoSurveySteps, type DemoIds };
+
 
 /** Ids of the demo scenario: Marlow Crossing Cold Store's freezer halls, Basalt 4 · 2.5 t, 775 Ah battery. */
 export async function demoScenarioIds(): Promise<DemoIds> {
@@ -40,47 +37,6 @@ export async function demoScenarioIds(): Promise<DemoIds> {
 	return { customerId: c.id, siteId: c.site_id, truckId: t.id, batteryId: b.id };
 }
 
-/** The wizard's data steps for the demo scenario: six trucks on three shifts, a site hoist and beam. */
-export function demoSurveySteps(
-	ids: DemoIds,
-	opts: { trucks?: number; contactEmail?: string } = {}
-) {
-	return {
-		site: {
-			contactName: 'Dana Quillfeather',
-			contactEmail: opts.contactEmail ?? 'dana.q@marlow-crossing.example'
-		},
-		fleet: {
-			truckModelId: ids.truckId,
-			trucks: opts.trucks ?? 6,
-			batterySource: 'catalogue',
-			batteryId: ids.batteryId
-		},
-		operation: {
-			shiftsPerDay: 3,
-			hoursPerShift: 8,
-			daysPerWeek: 5,
-			duty: 'medium',
-			energyKwhPerHour: 3.5,
-			charging: 'conventional'
-		},
-		equipment: {
-			palletTrucks: [{ forkLengthMm: 1150, overallWidthMm: 540, capacityKg: 2000 }],
-			rollerStands: [],
-			hasCrane: true,
-			craneRatedLoadKg: 2000,
-			hasBeam: true,
-			beamWeightKg: 90
-		},
-		charging: {
-			hasArea: true,
-			floorAreaM2: 40,
-			ventilationM3h: 150,
-			eyewash: true,
-			neutraliser: true
-		}
-	} as const;
-}
 
 function expectStatus(res: Response, status: number, what: string): void {
 	if (res.status !== status) throw new Error(`${what}: expected HTTP ${status}, got ${res.status}`);

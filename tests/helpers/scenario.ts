@@ -3,6 +3,7 @@ import { QueryTypes } from 'sequelize';
 import { expect } from 'vitest';
 import { sequelize } from '$lib/server/db';
 import type { Client } from './http';
+import { demoSurveySteps } from './survey-steps';
 
 /** Ids of the demo scenario: Marlow Crossing Cold Store's freezer halls, Basalt 4 · 2.5 t, 775 Ah battery. */
 export async function demoIds() {
@@ -37,20 +38,7 @@ export async function chosenSurvey(
 	const start = await rep.action('/surveys?/start', { customerId: ids.customerId, siteId: ids.siteId, clientToken: randomUUID() });
 	expect(start.status).toBe(303);
 	const id = /\/surveys\/([0-9a-f-]{36})\//.exec(start.headers.get('location')!)![1];
-	const steps: Record<string, unknown> = {
-		site: { contactName: opts.contactName ?? 'Dana Quillfeather', contactEmail: opts.contactEmail ?? 'dana.q@marlow-crossing.example' },
-		fleet: { truckModelId: ids.truckId, trucks: opts.trucks ?? 6, batterySource: 'catalogue', batteryId: ids.batteryId },
-		operation: { shiftsPerDay: 3, hoursPerShift: 8, daysPerWeek: 5, duty: 'medium', energyKwhPerHour: 3.5, charging: 'conventional' },
-		equipment: {
-			palletTrucks: [{ forkLengthMm: 1150, overallWidthMm: 540, capacityKg: 2000 }],
-			rollerStands: [],
-			hasCrane: true,
-			craneRatedLoadKg: 2000,
-			hasBeam: true,
-			beamWeightKg: 90
-		},
-		charging: { hasArea: true, floorAreaM2: 40, ventilationM3h: 150, eyewash: true, neutraliser: true }
-	};
+	const steps = demoSurveySteps(ids, opts);
 	for (const [step, values] of Object.entries(steps)) {
 		const res = await rep.post(`/api/v1/surveys/${id}`, { step, values }, { method: 'PATCH' });
 		expect(res.status, step).toBe(200);

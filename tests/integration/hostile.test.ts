@@ -10,6 +10,7 @@ import { readRoutes, fillRoute } from '../helpers/routes';
 import { buildQuote, chosenSurvey, demoIds, quoteLines, quoteState } from '../helpers/scenario';
 import { mailedQuoteToken } from '../helpers/customer-link';
 import { makePng } from '../helpers/images';
+import { demoSurveySteps } from '../helpers/survey-steps';
 import { sequelize } from '$lib/server/db';
 import { isBadValueError, isBusyError } from '$lib/server/db/bad-value';
 import {
@@ -630,37 +631,8 @@ describe('markup, SQL and right-to-left text round-trip as text', () => {
 		});
 		expect(start.status).toBe(303);
 		hostileSurveyId = /\/surveys\/([0-9a-f-]{36})\//.exec(start.headers.get('location')!)![1];
-		const steps: Record<string, unknown> = {
-			site: { contactName: hostile('V1'), contactEmail: 'orla@wickerby.example' },
-			fleet: {
-				truckModelId: ids.truckId,
-				trucks: 6,
-				batterySource: 'catalogue',
-				batteryId: ids.batteryId
-			},
-			operation: {
-				shiftsPerDay: 3,
-				hoursPerShift: 8,
-				daysPerWeek: 5,
-				duty: 'medium',
-				energyKwhPerHour: 3.5,
-				charging: 'conventional'
-			},
-			equipment: {
-				palletTrucks: [{ forkLengthMm: 1150, overallWidthMm: 540, capacityKg: 2000 }],
-				rollerStands: [],
-				hasCrane: true,
-				craneRatedLoadKg: 2000,
-				hasBeam: true,
-				beamWeightKg: 90
-			},
-			charging: {
-				hasArea: true,
-				floorAreaM2: 40,
-				ventilationM3h: 150,
-				eyewash: true,
-				neutraliser: true
-			},
+		const steps = {
+			...demoSurveySteps(ids, { contactName: hostile('V1'), contactEmail: 'orla@wickerby.example' }),
 			notes: { notes: hostile('V3') }
 		};
 		for (const [step, values] of Object.entries(steps)) {
