@@ -225,6 +225,26 @@ describe('the same form sent several times at once', () => {
 		expect(await quoteState(quoteId)).toBe('accepted');
 	});
 
+	it('two dozen “Send”s on one quote at once: each answered 200 or 409 (none 5xx), the quote sent once', async () => {
+		// more requests than the pool has connections (10): a request waiting for the quote's lock
+		// must not hold a connection while it waits, or the others find the pool empty
+		const quoteId = await buildQuote(
+			rep,
+			await chosenSurvey(rep, { contactEmail: `crowd-${run}@customer.test` })
+		);
+		expect((await rep.post(`/api/v1/quotes/${quoteId}/actions`, { action: 'mark-ready' })).status).toBe(200);
+		const answers = await Promise.all(
+			Array.from({ length: 24 }, () => rep.post(`/api/v1/quotes/${quoteId}/actions`, { action: 'send' }))
+		);
+		const statuses = answers.map((r) => r.status);
+		expect(statuses.filter((s) => s !== 200 && s !== 409), statuses.join(' ')).toEqual([]);
+		expect(statuses).toContain(200);
+		expect(await quoteState(quoteId)).toBe('sent');
+		expect(
+			await count(`SELECT count(*) AS n FROM quote_events WHERE quote_id = :quoteId AND action = 'send'`, { quoteId })
+		).toBe(1);
+	});
+
 	it('a manager’s “Approve” tapped twice approves once', async () => {
 		const quoteId = await buildQuote(rep, await chosenSurvey(rep));
 		// 15 % off every line is over the demo rep's 10 % authority (company settings): needs approval

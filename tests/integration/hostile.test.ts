@@ -632,7 +632,10 @@ describe('markup, SQL and right-to-left text round-trip as text', () => {
 		expect(start.status).toBe(303);
 		hostileSurveyId = /\/surveys\/([0-9a-f-]{36})\//.exec(start.headers.get('location')!)![1];
 		const steps = {
-			...demoSurveySteps(ids, { contactName: hostile('V1'), contactEmail: 'orla@wickerby.example' }),
+			...demoSurveySteps(
+				{ customerId, siteId, truckId: ids.truckId, batteryId: ids.batteryId },
+				{ contactName: hostile('V1'), contactEmail: 'orla@wickerby.example' }
+			),
 			notes: { notes: hostile('V3') }
 		};
 		for (const [step, values] of Object.entries(steps)) {

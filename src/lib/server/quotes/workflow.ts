@@ -19,7 +19,8 @@ import {
 	replaceLines,
 	updateRevision,
 	type NewLine,
-	type QuoteView
+	type QuoteView,
+	withQuoteLock
 } from '../repositories/quotes';
 import { priceQuote, type LineKind, type QuoteInput } from './pricing';
 import { needsApproval } from './approval';
@@ -361,7 +362,7 @@ export const ACTION_PERMISSION = {
  */
 export async function saveDraft(quoteId: string, user: SessionUser, edit: DraftEdit): Promise<Outcome<QuoteView>> {
 	const settings = await getCompanySettings();
-	return sequelize.transaction(async (t) => {
+	return withQuoteLock(async (t) => {
 		const found = await getQuote(quoteId, user, { transaction: t, lock: true });
 		if (!found.ok) return { ok: false, status: found.status, message: found.status === 404 ? 'No such quote.' : 'This quote belongs to another team.' };
 		const q = found.value;
@@ -533,8 +534,8 @@ export async function act(
 	if (opts.transaction) return run(opts.transaction);
 	try {
 		// two people acting on one quote at once: the second waits a moment for the quote's lock
-		// (QUOTE_LOCK_WAIT_MS, set where getQuote locks it), then is told so
-		return await sequelize.transaction(run);
+		// (withQuoteLock: up to QUOTE_LOCK_WAIT_MS, without holding a connection), then is told so
+		return await withQuoteLock(run);
 	} catch (err) {
 		if (isBusyError(err)) {
 			return { ok: false, status: 409, message: 'Someone else is changing this quote right now. Try again in a moment.' };

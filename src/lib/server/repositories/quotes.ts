@@ -1,5 +1,6 @@
 import { QueryTypes, type Transaction } from 'sequelize';
 import { sequelize } from '../db';
+import { isBusyError } from '../db/bad-value';
 import { recordScope, canSeeRecord } from '../auth/permissions';
 import type { SessionUser } from '../auth/types';
 import type { QuoteState } from '../quotes/states';
@@ -148,8 +149,30 @@ const REVISION_COLUMNS = `qr.id, qr.quote_id, qr.revision, qr.number, qr.state, 
 	qr.totals, qr.approval_required, qr.approval_reasons, qr.valid_until, qr.sent_at, (qr.pdf IS NOT NULL) AS has_pdf,
 	qr.pdf_sha256, qr.created_at, qr.updated_at`;
 
-/** How long a change waits for another change of the same quote to finish, ms. */
+/** How long a change waits in all for another change of the same quote to finish, ms. */
 export const QUOTE_LOCK_WAIT_MS = 3_000;
+/** How long one try waits for the quote's row lock, ms (see withQuoteLock). */
+export const QUOTE_LOCK_TRY_MS = 100;
+
+/**
+ * Runs `work` in a transaction that locks a quote (getQuote with `lock: true`). While another change
+ * holds the quote, each try gives up after QUOTE_LOCK_TRY_MS, hands its connection back to the pool,
+ * pauses briefly and tries again, for up to QUOTE_LOCK_WAIT_MS in all; then the busy error goes to
+ * the caller (a 409). Waiting without a connection matters: sixteen taps on one quote used to hold
+ * sixteen pooled connections while they queued for its lock, and a request that found the pool
+ * empty for 6 s was answered as if the database were down (503).
+ */
+export async function withQuoteLock<T>(work: (t: Transaction) => Promise<T>): Promise<T> {
+	const deadline = Date.now() + QUOTE_LOCK_WAIT_MS;
+	for (;;) {
+		try {
+			return await sequelize.transaction(work);
+		} catch (err) {
+			if (!isBusyError(err) || Date.now() >= deadline) throw err;
+			await new Promise((resolve) => setTimeout(resolve, 50 + Math.random() * 100));
+		}
+	}
+}
 
 export type Access<T> = { ok: true; value: T } | { ok: false; status: 403 | 404 };
 
@@ -165,9 +188,9 @@ export async function getQuote(
 ): Promise<Access<QuoteView>> {
 	const t = opts.transaction;
 	const history = opts.history ?? true;
-	// another request holding the quote waits its turn for a moment, then gets a clear "busy" (409)
-	// rather than queueing up to the statement timeout
-	if (opts.lock) await sequelize.query(`SET LOCAL lock_timeout = '${QUOTE_LOCK_WAIT_MS}ms'`, { transaction: t });
+	// a quote held by another change: this try gives up quickly (withQuoteLock tries again) rather
+	// than queueing up to the statement timeout
+	if (opts.lock) await sequelize.query(`SET LOCAL lock_timeout = '${QUOTE_LOCK_TRY_MS}ms'`, { transaction: t });
 	const rows = await sequelize.query<Record<string, unknown>>(
 		`SELECT q.id AS q_id, q.survey_id, q.customer_id, c.name AS customer_name, q.site_id, st.name AS site_name,
 		        st.address_line1, st.address_line2, st.city, st.postal_code, st.country, st.region_code,

@@ -7,7 +7,7 @@ import { checkLink, customerSafe, openLink } from '$lib/server/quotes/customer-v
 import { acceptanceOf, recordAcceptance, resolveLink } from '$lib/server/quotes/customer-links';
 import { sendFreshLink } from '$lib/server/quotes/fresh-link';
 import { getCompanySettings } from '$lib/server/repositories/pricing';
-import { revisionPdf } from '$lib/server/repositories/quotes';
+import { revisionPdf, withQuoteLock } from '$lib/server/repositories/quotes';
 import { createDepositCheckout, PaymentsRequestError, PaymentsUnavailableError } from '$lib/server/payments/checkout';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -47,7 +47,7 @@ export const actions: Actions = {
 			return fail(400, { fullName: typeof form.fullName === 'string' ? form.fullName.slice(0, 120) : '', errors });
 		}
 		const stored = await revisionPdf(link.revisionId);
-		const outcome = await sequelize.transaction(async (t) => {
+		const outcome = await withQuoteLock(async (t) => {
 			const done = await act(link.quoteId, { user: null, role: 'customer' }, 'accept', {
 				transaction: t,
 				revisionId: link.revisionId,
