@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { checkHoursPerDay } from './evaluate';
 import { formatLength, formatMass } from '../units';
-import { STEP_LABELS } from '../labels';
+import { STEP_LABELS, SURVEY_STEPS } from '../labels';
 
 /**
  * The site survey, one schema per wizard step. Values are stored in SI units (mm, kg, m³/h, m²)
@@ -9,7 +9,7 @@ import { STEP_LABELS } from '../labels';
  * autosave route accepts the same shapes with every field optional, so a half-filled step is kept.
  */
 
-export const SURVEY_STEPS = ['site', 'fleet', 'operation', 'equipment', 'charging', 'notes', 'review'] as const;
+export { SURVEY_STEPS };
 export type SurveyStep = (typeof SURVEY_STEPS)[number];
 export const STEP_TITLES = STEP_LABELS as Record<SurveyStep, string>;
 

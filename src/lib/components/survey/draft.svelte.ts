@@ -137,11 +137,27 @@ export class SurveyDraft {
 		if (opts.evaluate !== false) this.scheduleEvaluate();
 	}
 
+	/**
+	 * Keeps unsaved edits across a reload, leaving out answers the server has already refused as
+	 * they stand: replaying those after a reload would only be refused again (a re-send of the
+	 * whole step, say on leaving a field, can still carry one when the page is reloaded mid-save).
+	 */
 	#persistPending() {
 		if (typeof localStorage === 'undefined') return;
-		if (this.#pending.size === 0) localStorage.removeItem(this.storageKey);
-		else localStorage.setItem(this.storageKey, JSON.stringify(Object.fromEntries(this.#pending)));
+		const keep: Partial<Record<DataStep, Record<string, unknown>>> = {};
+		for (const [step, values] of this.#pending) {
+			const refused = this.#refusedValues[step] ?? {};
+			const rest = Object.fromEntries(
+				Object.entries(values).filter(([k, v]) => !(Object.hasOwn(refused, k) && JSON.stringify(refused[k]) === JSON.stringify(v)))
+			);
+			if (Object.keys(rest).length) keep[step] = rest;
+		}
+		if (Object.keys(keep).length === 0) localStorage.removeItem(this.storageKey);
+		else localStorage.setItem(this.storageKey, JSON.stringify(keep));
 	}
+
+	/** the values the server refused, by step and top-level field, as they were sent */
+	#refusedValues: Partial<Record<DataStep, Record<string, unknown>>> = {};
 
 	#schedule(ms: number) {
 		if (this.#timer) clearTimeout(this.#timer);
@@ -204,6 +220,11 @@ export class SurveyDraft {
 		// answers sent this time replace their old refusals; answers not sent keep theirs
 		const still = Object.fromEntries(Object.entries(this.refused[step] ?? {}).filter(([path]) => !Object.hasOwn(values, topField(path))));
 		const next = { ...still, ...refused };
+		const sentValues = Object.fromEntries(Object.keys(next).map(topField).filter((k) => Object.hasOwn(values, k)).map((k) => [k, values[k]]));
+		const keptRefused = Object.fromEntries(
+			Object.entries(this.#refusedValues[step] ?? {}).filter(([k]) => !Object.hasOwn(values, k))
+		);
+		this.#refusedValues = { ...this.#refusedValues, [step]: { ...keptRefused, ...sentValues } };
 		const all = { ...this.refused };
 		if (Object.keys(next).length) all[step] = next;
 		else delete all[step];
