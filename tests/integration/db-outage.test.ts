@@ -25,6 +25,7 @@ import { BASE, DEMO, signIn, type Client } from '../helpers/http';
 import { buildQuote, chosenSurvey, demoIds, quoteLines } from '../helpers/scenario';
 import { postgres, postgresControlProblem } from '../helpers/postgres';
 import { sleep, waitFor } from '../helpers/services';
+import { checkoutCompletedEvent } from '../helpers/payment-events';
 
 /** No request may take longer than this while the database is away. */
 const HANG_MS = 10_000;
@@ -127,30 +128,7 @@ async function surveyState(id: string) {
 }
 
 function completedEvent(sessionId: string, quoteId: string) {
-	const payload = JSON.stringify({
-		id: `evt_test_${randomUUID().replaceAll('-', '')}`,
-		object: 'event',
-		api_version: Stripe.API_VERSION,
-		created: Math.floor(Date.now() / 1000),
-		livemode: false,
-		pending_webhooks: 1,
-		request: { id: null, idempotency_key: null },
-		type: 'checkout.session.completed',
-		data: {
-			object: {
-				id: sessionId,
-				object: 'checkout.session',
-				amount_total: 250_000,
-				currency: 'eur',
-				customer_details: { email: 'dana@customer.test' },
-				metadata: { quote_id: quoteId, revision_id: randomUUID(), purpose: 'deposit' },
-				mode: 'payment',
-				payment_intent: `pi_test_${randomUUID().replaceAll('-', '')}`,
-				payment_status: 'paid',
-				status: 'complete'
-			}
-		}
-	});
+	const payload = JSON.stringify(checkoutCompletedEvent({ sessionId, quoteId }));
 	return { id: (JSON.parse(payload) as { id: string }).id, payload };
 }
 

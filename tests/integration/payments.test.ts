@@ -8,6 +8,7 @@ import { paymentsClient } from '$lib/server/payments/client';
 import { handlePaymentEvent, onDepositPaid, recordCheckoutCompleted } from '$lib/server/payments/events';
 import { BASE } from '../helpers/http';
 import { sleep, waitFor } from '../helpers/services';
+import { checkoutCompletedEvent } from '../helpers/payment-events';
 
 const SECRET = process.env.PAYMENTS_WEBHOOK_SECRET ?? 'whsec_traywise_local';
 const WEBHOOK = `${BASE}/api/webhooks/payments`;
@@ -16,33 +17,6 @@ afterAll(async () => {
 	await sequelize.close();
 });
 
-function completedEvent(overrides: { sessionId?: string; quoteId?: string; amount?: number } = {}) {
-	const sessionId = overrides.sessionId ?? `cs_test_${randomUUID().replaceAll('-', '')}`;
-	return {
-		id: `evt_test_${randomUUID().replaceAll('-', '')}`,
-		object: 'event',
-		api_version: Stripe.API_VERSION,
-		created: Math.floor(Date.now() / 1000),
-		livemode: false,
-		pending_webhooks: 1,
-		request: { id: null, idempotency_key: null },
-		type: 'checkout.session.completed',
-		data: {
-			object: {
-				id: sessionId,
-				object: 'checkout.session',
-				amount_total: overrides.amount ?? 250_000,
-				currency: 'eur',
-				customer_details: { email: 'dana@customer.test' },
-				metadata: { quote_id: overrides.quoteId ?? randomUUID(), revision_id: randomUUID(), purpose: 'deposit' },
-				mode: 'payment',
-				payment_intent: `pi_test_${randomUUID().replaceAll('-', '')}`,
-				payment_status: 'paid',
-				status: 'complete'
-			}
-		}
-	};
-}
 
 function post(payload: string, signature?: string) {
 	return fetch(WEBHOOK, {
@@ -86,7 +60,7 @@ async function payOnHostedPage(url: string, cardNumber: string) {
 
 describe('payment webhook', () => {
 	it('refuses a bad signature with a JSON 400 and records nothing', async () => {
-		const event = completedEvent();
+		const event = checkoutCompletedEvent();
 		const payload = JSON.stringify(event);
 		for (const signature of [sign(payload, 'whsec_someone_else'), 't=1,v1=deadbeef', undefined]) {
 			const res = await post(payload, signature);
@@ -102,7 +76,7 @@ describe('payment webhook', () => {
 	});
 
 	it('refuses a signature older than the tolerance (a replayed request)', async () => {
-		const event = completedEvent();
+		const event = checkoutCompletedEvent();
 		const payload = JSON.stringify(event);
 		const res = await post(payload, sign(payload, SECRET, Math.floor(Date.now() / 1000) - 3600));
 		expect(res.status).toBe(400);
@@ -111,7 +85,7 @@ describe('payment webhook', () => {
 
 	it('records one payment when the same signed event arrives five times, two of them at once', async () => {
 		const quoteId = randomUUID();
-		const event = completedEvent({ quoteId, amount: 123_457 });
+		const event = checkoutCompletedEvent({ quoteId, amount: 123_457 });
 		const payload = JSON.stringify(event);
 		const first = await post(payload, sign(payload));
 		expect(first.status).toBe(200);
@@ -130,7 +104,7 @@ describe('payment webhook', () => {
 	});
 
 	it('records one payment when five deliveries of one event arrive at the same moment', async () => {
-		const event = completedEvent({ amount: 777_777 });
+		const event = checkoutCompletedEvent({ amount: 777_777 });
 		const payload = JSON.stringify(event);
 		const responses = await Promise.all(Array.from({ length: 5 }, () => post(payload, sign(payload))));
 		const bodies = await Promise.all(responses.map((r) => r.json()));
@@ -141,7 +115,7 @@ describe('payment webhook', () => {
 	});
 
 	it('answers a signed event of another type with 200 and records no payment', async () => {
-		const event = { ...completedEvent(), type: 'customer.created' };
+		const event = { ...checkoutCompletedEvent(), type: 'customer.created' };
 		const payload = JSON.stringify(event);
 		const res = await post(payload, sign(payload));
 		expect(res.status).toBe(200);
@@ -160,7 +134,7 @@ describe('the deposit-paid hook (in this process, against the real database)', (
 		});
 		try {
 			const quoteId = randomUUID();
-			const event = completedEvent({ quoteId, amount: 50_001 }) as unknown as Stripe.Event;
+			const event = checkoutCompletedEvent({ quoteId, amount: 50_001 }) as unknown as Stripe.Event;
 			await expect(handlePaymentEvent(event)).rejects.toThrow('quote update failed');
 			expect(await PaymentEvent.count({ where: { eventId: event.id } })).toBe(0);
 			expect(await Payment.count({ where: { quoteId } })).toBe(0);
@@ -178,7 +152,7 @@ describe('the deposit-paid hook (in this process, against the real database)', (
 	});
 
 	it('recordCheckoutCompleted says firstTime only once', async () => {
-		const event = completedEvent() as unknown as Stripe.Event;
+		const event = checkoutCompletedEvent() as unknown as Stripe.Event;
 		const first = await sequelize.transaction((t) => recordCheckoutCompleted(event, t));
 		const second = await sequelize.transaction((t) => recordCheckoutCompleted(event, t));
 		expect(first).toMatchObject({ firstTime: true, paid: true, amountCents: 250_000 });

@@ -25,6 +25,7 @@ import { BASE, DEMO, client, signIn } from '../helpers/http';
 import { buildQuote, chosenSurvey, demoIds, quoteState, saveWithDiscount } from '../helpers/scenario';
 import { makePng } from '../helpers/images';
 import { sleep, waitFor } from '../helpers/services';
+import { checkoutCompletedEvent } from '../helpers/payment-events';
 
 const A = BASE;
 let B = '';
@@ -324,30 +325,7 @@ describe('two app processes on one database', () => {
 			customerEmail: 'dana@customer.test'
 		});
 		const eventId = `evt_test_${randomUUID().replaceAll('-', '')}`;
-		const payload = JSON.stringify({
-			id: eventId,
-			object: 'event',
-			api_version: Stripe.API_VERSION,
-			created: Math.floor(Date.now() / 1000),
-			livemode: false,
-			pending_webhooks: 1,
-			request: { id: null, idempotency_key: null },
-			type: 'checkout.session.completed',
-			data: {
-				object: {
-					id: sessionId,
-					object: 'checkout.session',
-					amount_total: 480_000,
-					currency: 'eur',
-					customer_details: { email: 'dana@customer.test' },
-					metadata: { quote_id: quoteId, revision_id: randomUUID(), purpose: 'deposit' },
-					mode: 'payment',
-					payment_intent: `pi_test_${randomUUID().replaceAll('-', '')}`,
-					payment_status: 'paid',
-					status: 'complete'
-				}
-			}
-		});
+		const payload = JSON.stringify(checkoutCompletedEvent({ eventId, sessionId, quoteId, amount: 480_000 }));
 		const secret = process.env.PAYMENTS_WEBHOOK_SECRET ?? 'whsec_traywise_local';
 		const deliver = (base: string) =>
 			fetch(`${base}/api/webhooks/payments`, {
